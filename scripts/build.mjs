@@ -1,0 +1,19 @@
+// Bundles the CLI into dist/ so a cold start does not pay for module resolution
+// of hundreds of files (see shared notes on start-up cost). mathjs and ink stay
+// in their own chunks, loaded only by the commands that need them.
+import { build } from 'esbuild';
+
+await build({
+  entryPoints: { main: 'src/cli/main.ts' },
+  outdir: 'dist',
+  bundle: true,
+  splitting: true,
+  format: 'esm',
+  platform: 'node',
+  target: 'node20',
+  external: ['better-sqlite3'],
+  // Some CommonJS dependencies call require(); give the ESM bundle one.
+  banner: { js: "import { createRequire as __llCreateRequire } from 'node:module'; const require = __llCreateRequire(import.meta.url);" },
+  logLevel: 'warning',
+  define: { 'process.env.NODE_ENV': '"production"' },
+});
