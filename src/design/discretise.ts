@@ -109,3 +109,30 @@ export function biquadResponse(q: Biquad, wRadS: number, sampleS: number): [numb
   const d = dr * dr + di * di;
   return [(nr * dr + ni * di) / d, (ni * dr - nr * di) / d];
 }
+
+/** A whole compensator for firmware: one entry per block, in series order, and warnings. */
+export interface DiscreteCompensator {
+  readonly sampleS: number;
+  readonly blocks: readonly { readonly block: Block; readonly discrete: DiscreteBlock }[];
+  readonly warnings: readonly string[];
+}
+
+/**
+ * Discretises every block of a compensator at one sample time. Warns where a block
+ * sits above a quarter of the sample rate, where the bilinear map bends the
+ * response noticeably even with pre-warping at one frequency.
+ */
+export function discretiseCompensator(blocks: readonly Block[], sampleS: number, where: string): DiscreteCompensator {
+  if (!(sampleS > 0) || !Number.isFinite(sampleS)) throw new UserError(`${where}: the sample time must be a positive number`);
+  const warnings: string[] = [];
+  const quarterRadS = Math.PI / (2 * sampleS);
+  const out = blocks.map((block, i) => {
+    const label = `${where} block ${i + 1} (${block.kind})`;
+    const top = blockTopRadS(block);
+    if (top > quarterRadS && Number.isFinite(top)) {
+      warnings.push(`${label}: at ${(top / (2 * Math.PI)).toPrecision(4)} Hz it is above a quarter of the sample rate; check the discrete response`);
+    }
+    return { block, discrete: discretiseBlock(block, sampleS, label) };
+  });
+  return { sampleS, blocks: out, warnings };
+}
