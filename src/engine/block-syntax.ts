@@ -44,7 +44,8 @@ export function parseBlock(text: string, unit: FreqUnit, parseExpr: ExprParser):
       return { kind: 'pi', zeroRadS: freq(arg, 'zero') };
     case 'lead':
     case 'lag': {
-      const parts = arg.split('/');
+      // Split only at a '/' that starts the second number, so 'lead:30rad/s/150rad/s' works too.
+      const parts = arg.split(/\/(?=\s*[+-]?[\d.])/);
       need(parts.length === 2, `write ${kind}:ZERO/POLE, e.g. ${kind === 'lead' ? 'lead:30Hz/150Hz' : 'lag:2Hz/0.2Hz'}`);
       const zeroRadS = freq(parts[0]!, 'zero');
       const poleRadS = freq(parts[1]!, 'pole');

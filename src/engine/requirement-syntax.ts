@@ -60,6 +60,8 @@ export function parseRequirement(text: string, unit: FreqUnit): Requirement {
   if (!(key in METRICS)) throw new UserError(`${where}: unknown metric '${key}'; ${REQUIREMENT_SYNTAX_HELP}`);
   const metric = key as MetricKey;
   const value = parseValue(METRICS[metric].kind, raw, unit, where);
+  // Every metric is judged as a non-negative quantity (|PM|, |GM|, ratios, times), so a negative limit is a typo.
+  if (value < 0) throw new UserError(`${where}: the limit must not be negative`);
   return { metric, op, value, text: `${metric}${op}${raw}` };
 }
 
