@@ -1,0 +1,82 @@
+import type { Complex, Poly, TransferFunction } from '../model/tf.js';
+import { polyTrim } from './poly.js';
+import { polyRoots } from './roots.js';
+
+/**
+ * A transfer function held as gain, zeros, poles and delay. Evaluating on the jw
+ * axis in this form sums per-factor logarithms and angles, so it neither overflows
+ * for high orders nor loses digits when corners span many decades, and its phase
+ * is continuous (no 360 deg jumps) by construction.
+ */
+export interface Factored {
+  /** Ratio of the leading coefficients num/den (0 for a zero numerator). */
+  readonly gain: number;
+  readonly zeros: readonly Complex[];
+  readonly poles: readonly Complex[];
+  readonly delayS: number;
+}
+
+/** Leading (highest-power) coefficient. */
+function lead(p: Poly): number {
+  const t = polyTrim(p);
+  return t[t.length - 1]!;
+}
+
+/** Factors tf; pass known roots to skip root finding. Roots exactly on the axis keep a +0 real part. */
+export function factorTf(tf: TransferFunction, zeros?: readonly Complex[], poles?: readonly Complex[]): Factored {
+  const n = polyTrim(tf.num);
+  const zeroNum = n.length === 1 && n[0] === 0;
+  const clean = (rs: readonly Complex[]) => rs.map((r) => ({ re: r.re + 0, im: r.im + 0 }));
+  return {
+    gain: zeroNum ? 0 : lead(tf.num) / lead(tf.den),
+    zeros: zeroNum ? [] : clean(zeros ?? polyRoots(tf.num)),
+    poles: clean(poles ?? polyRoots(tf.den)),
+    delayS: tf.delayS,
+  };
+}
+
+/**
+ * Values at s = jw written into out: [0] ln|G|, [1] unwrapped phase (rad, delay included),
+ * [2] d ln|G| / dw, [3] d phase / dw. Returns out.
+ */
+export function factoredAt(f: Factored, w: number, out: Float64Array): Float64Array {
+  let lm = f.gain === 0 ? -Infinity : Math.log(Math.abs(f.gain));
+  let ph = f.gain < 0 ? -Math.PI : 0;
+  let dlm = 0;
+  let dph = -f.delayS;
+  for (const z of f.zeros) {
+    const x = 0 - z.re;
+    const y = w - z.im;
+    const r2 = x * x + y * y;
+    lm += 0.5 * Math.log(r2);
+    ph += Math.atan2(y, x);
+    dlm += y / r2;
+    dph += x / r2;
+  }
+  for (const p of f.poles) {
+    const x = 0 - p.re;
+    const y = w - p.im;
+    const r2 = x * x + y * y;
+    lm -= 0.5 * Math.log(r2);
+    ph -= Math.atan2(y, x);
+    dlm -= y / r2;
+    dph -= x / r2;
+  }
+  out[0] = lm;
+  out[1] = ph - w * f.delayS;
+  out[2] = dlm;
+  out[3] = dph;
+  return out;
+}
+
+/** G(jw) as [re, im] from the factored form. */
+export function factoredValueAt(f: Factored, w: number): [number, number] {
+  const v = factoredAt(f, w, new Float64Array(4));
+  const m = Math.exp(v[0]!);
+  return [m * Math.cos(v[1]!), m * Math.sin(v[1]!)];
+}
+
+/** Number of roots with positive real part. */
+export function countRightHalfPlane(rs: readonly Complex[]): number {
+  return rs.filter((r) => r.re > 0).length;
+}
