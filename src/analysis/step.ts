@@ -1,0 +1,131 @@
+import type { StepMetrics } from '../model/metrics.js';
+import type { Complex, Poly, TransferFunction } from '../model/tf.js';
+import { polyAdd, polyMul, polyTrim } from './poly.js';
+import { polyRoots } from './roots.js';
+import { traceMetrics, zeroFinalValueMetrics } from './step-metrics.js';
+import { loopModes, planStep, type StepPlan } from './step-plan.js';
+import { simulateStep, type StepTrace } from './step-sim.js';
+import { buildLoopSystem, type LoopSystem } from './step-system.js';
+
+/**
+ * Unit-step response of the unity-feedback loop u = C (r - y), y = P e^(-sT) u from
+ * zero initial state, and its metrics (DESIGN.md, "Step metrics"). The loop is
+ * realised from the pole/zero sections of C and P (state-space.ts), discretised
+ * exactly (step-sim.ts) on a grid planned from the closed-loop modes (step-plan.ts);
+ * the delay runs through a delay line, never a Pade approximant.
+ */
+
+/** Below this damping ratio a closed-loop pole counts as on the imaginary axis. */
+const MARGINAL_DAMPING = 1e-6;
+
+/** Index of the lowest nonzero coefficient (the power of s that p starts with). */
+function lowestPower(p: Poly): number {
+  let k = 0;
+  while (k < p.length - 1 && p[k] === 0) k++;
+  return k;
+}
+
+/** T(0) = L(0) / (1 + L(0)) exactly from the trailing coefficients; an integrating loop gives 1. */
+function closedLoopDcGain(plant: TransferFunction, comp: TransferFunction): number {
+  const n = polyTrim(polyMul(comp.num, plant.num));
+  const d = polyTrim(polyMul(comp.den, plant.den));
+  if (n.length === 1 && n[0] === 0) return 0;
+  const kn = lowestPower(n);
+  const kd = lowestPower(d);
+  if (kn > kd) return 0;
+  if (kn < kd) return 1;
+  const l0 = n[kn]! / d[kd]!;
+  return l0 / (1 + l0);
+}
+
+function isProper(tf: TransferFunction): boolean {
+  return polyTrim(tf.num).length <= polyTrim(tf.den).length;
+}
+
+/** Closed-loop poles for planning when none are given: exact without delay; with a delay, those of the delay-free loop as an estimate. */
+function planningPoles(plant: TransferFunction, comp: TransferFunction): Complex[] {
+  return polyRoots(polyAdd(polyMul(comp.den, plant.den), polyMul(comp.num, plant.num)));
+}
+
+/** With a delay the loop runs open for a while, so C and P show their own poles: the fastest of them must be resolved too. */
+function openLoopRateRadS(plant: TransferFunction, comp: TransferFunction): number {
+  if (plant.delayS + comp.delayS === 0) return 0;
+  return Math.max(0, ...[...polyRoots(comp.den), ...polyRoots(plant.den)].map((p) => Math.hypot(p.re, p.im)));
+}
+
+interface Run {
+  trace: StepTrace;
+  plan: StepPlan;
+}
+
+/** Builds the loop system and simulates it on the planned grid. */
+function run(sys: LoopSystem, plant: TransferFunction, comp: TransferFunction, poles: readonly Complex[], yF: number, opts: { durationS?: number; maxSamples?: number }): Run {
+  const modes = loopModes(plant, comp, poles);
+  const yScale = yF !== 0 ? Math.abs(yF) : Math.max(1e-300, ...modes.map((m) => (Number.isFinite(m.yAmp) ? m.yAmp : 0)));
+  const uScale = Math.max(1e-300, Math.abs(sys.dur), ...modes.map((m) => (Number.isFinite(m.uAmp) ? m.uAmp : 0)));
+  const plan = planStep(modes, openLoopRateRadS(plant, comp), sys.delayS, yScale, uScale, opts);
+  return { trace: simulateStep(sys, plan.hS, plan.delaySteps, plan.steps), plan };
+}
+
+/** Why a loop cannot be simulated, or null; improper or algebraically singular loops. */
+function notSimulable(plant: TransferFunction, comp: TransferFunction): string | null {
+  if (!isProper(comp) || !isProper(plant)) return 'step metrics need a proper loop (the compensator or plant has more zeros than poles)';
+  return null;
+}
+
+/** Samples of the unit-step response y and the effort u of the loop (empty with a warning when it cannot be simulated). */
+export function stepResponse(
+  plant: TransferFunction,
+  comp: TransferFunction,
+  opts: { durationS?: number; maxSamples?: number } = {},
+): { tS: Float64Array; y: Float64Array; u: Float64Array; warnings: string[] } {
+  const why = notSimulable(plant, comp);
+  const empty = { tS: new Float64Array(0), y: new Float64Array(0), u: new Float64Array(0) };
+  if (why) return { ...empty, warnings: [why] };
+  let sys: LoopSystem;
+  try {
+    sys = buildLoopSystem(plant, comp);
+  } catch (e) {
+    return { ...empty, warnings: [`step response unavailable: ${(e as Error).message}`] };
+  }
+  const { trace, plan } = run(sys, plant, comp, planningPoles(plant, comp), closedLoopDcGain(plant, comp), opts);
+  // Right-hand values: the response just after each grid time, so y[0] = y(0+).
+  return { tS: trace.tS, y: trace.yPlus, u: trace.uPlus, warnings: plan.warnings };
+}
+
+/** Unit-step metrics of a stable loop; null (with warnings saying why) for unstable, marginal or improper loops. */
+export function stepMetrics(
+  plant: TransferFunction,
+  comp: TransferFunction,
+  closedLoopPoles: readonly Complex[],
+  stable: boolean,
+): { metrics: StepMetrics | null; warnings: string[] } {
+  if (!stable) return { metrics: null, warnings: [] };
+  if (closedLoopPoles.some((p) => p.re >= -MARGINAL_DAMPING * Math.hypot(p.re, p.im))) {
+    return { metrics: null, warnings: ['closed-loop poles on or next to the imaginary axis: no step metrics'] };
+  }
+  const why = notSimulable(plant, comp);
+  if (why) return { metrics: null, warnings: [why] };
+  let sys: LoopSystem;
+  try {
+    sys = buildLoopSystem(plant, comp);
+  } catch (e) {
+    return { metrics: null, warnings: [`no step metrics: ${(e as Error).message}`] };
+  }
+  const yF = closedLoopDcGain(plant, comp);
+  const poles = closedLoopPoles.length > 0 ? closedLoopPoles : planningPoles(plant, comp);
+  let { trace, plan } = run(sys, plant, comp, poles, yF, {});
+  const warnings = [...plan.warnings];
+  if (yF === 0) {
+    warnings.push('closed-loop DC gain is zero: overshoot, rise, settling and peak time are not defined');
+    return { metrics: zeroFinalValueMetrics(trace), warnings };
+  }
+  let res = traceMetrics(trace, yF);
+  if (!res.settled) {
+    // The planned run was too short (modes estimated with a delay, or very large residues): run longer once.
+    ({ trace, plan } = run(sys, plant, comp, poles, yF, { durationS: plan.durationS * 4 }));
+    res = traceMetrics(trace, yF);
+    if (!res.settled) warnings.push(`step response not settled within ${plan.durationS.toPrecision(3)} s: settling time unknown`);
+  }
+  return { metrics: res.metrics, warnings };
+}
