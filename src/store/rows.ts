@@ -1,0 +1,52 @@
+/** Rows as the store holds them: plain columns, JSON kept as text. */
+
+export interface MachineRow {
+  readonly name: string;
+  readonly unit: 'hz' | 'rad';
+  readonly created_at: string;
+}
+
+export interface AxisRow {
+  readonly id: number;
+  readonly name: string;
+  readonly note: string;
+  readonly author: string;
+  readonly created_at: string;
+}
+
+export interface LoopRow {
+  readonly id: number;
+  readonly axis_id: number;
+  /** Name of the loop's axis (joined). */
+  readonly axis: string;
+  readonly name: string;
+  readonly inner_loop_id: number | null;
+  readonly sample_rate_hz: number | null;
+}
+
+/** A revision without its state. */
+export interface RevisionHeadRow {
+  readonly loop_id: number;
+  readonly number: number;
+  readonly parent: number | null;
+  readonly kind: string;
+  readonly author: string;
+  readonly created_at: string;
+  readonly note: string;
+  readonly summary: string;
+  readonly state_hash: string;
+  readonly dynamics_hash: string;
+}
+
+export interface RevisionRow extends RevisionHeadRow {
+  readonly state_json: string;
+}
+
+export interface ResultRow {
+  readonly loop_id: number;
+  readonly revision: number;
+  readonly input_hash: string;
+  readonly status: string;
+  readonly result_json: string;
+  readonly computed_at: string;
+}
