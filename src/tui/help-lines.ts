@@ -1,0 +1,59 @@
+import { KEY_TABLE, activeBindings, type KeyBinding, type KeyScope, type Screen } from './keys.js';
+import { truncate } from './text.js';
+
+const SCREEN_TITLE: Record<Screen, string> = {
+  overview: 'Overview',
+  loop: 'Loop view',
+  history: 'History',
+  compare: 'Compare two revisions',
+  edit: 'Edit',
+  tune: 'Tune',
+};
+
+const everything = (screen: Screen, typing: KeyScope['typing'] = null): KeyScope => ({
+  screen, help: false, typing, hasSelection: true, hasProposal: true, canTune: true,
+});
+
+/** Bindings in the table's order that footer and help show (one per handler and key label). */
+function unique(bs: readonly KeyBinding[]): KeyBinding[] {
+  const seen = new Set<string>();
+  return bs.filter((b) => {
+    const k = `${b.handler}:${b.keyLabel}`;
+    if (seen.has(k)) return false;
+    seen.add(k);
+    return true;
+  });
+}
+
+/**
+ * The footer: the keys that work now, as "key label" pairs, cut with `…` at the
+ * window width so it never wraps.
+ */
+export function footerLine(scope: KeyScope, width: number, table: readonly KeyBinding[] = KEY_TABLE): string {
+  const items = unique(activeBindings(scope, table).filter((b) => b.showInFooter)).map((b) => `${b.keyLabel} ${b.label}`);
+  return truncate(items.join('  '), width);
+}
+
+/**
+ * The help screen, generated from the key table: keys that work on every screen,
+ * then each screen's own keys, then the keys while typing.
+ */
+export function helpLines(width: number, table: readonly KeyBinding[] = KEY_TABLE): string[] {
+  const screens = Object.keys(SCREEN_TITLE) as Screen[];
+  const perScreen = screens.map((s) => unique(activeBindings(everything(s), table)));
+  const common = perScreen[0]!.filter((b) => perScreen.every((list) => list.includes(b)));
+  const keyWidth = Math.max(...table.map((b) => b.keyLabel.length)) + 2;
+  const row = (b: KeyBinding) => truncate(`  ${b.keyLabel.padEnd(keyWidth)}${b.help}`, width);
+  const out = ['Every screen', ...common.map(row)];
+  screens.forEach((s, i) => {
+    const own = perScreen[i]!.filter((b) => !common.includes(b));
+    if (own.length) out.push('', SCREEN_TITLE[s], ...own.map(row));
+  });
+  const typing = unique(
+    (['filter', 'field', 'note'] as const).flatMap((t) => activeBindings(everything('edit', t), table)),
+  );
+  out.push('', 'While typing (filter, a block or requirement, a note)', ...typing.map(row));
+  out.push('  Backspace  delete the last character');
+  out.push('', 'Status: + pass  x fail  ! unstable  ? error (cannot be analysed)');
+  return out;
+}
