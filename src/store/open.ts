@@ -44,35 +44,35 @@ function headerBytes(file: string): Buffer {
 type Probe = { kind: 'store'; version: number } | { kind: 'foreign' } | { kind: 'corrupt'; reason: string };
 
 /**
- * Looks at an existing SQLite file read-only. SQLite may create empty -wal/-shm
- * companions for a WAL-mode file even when reading; when the file turns out not
- * to be ours, companions that we created are removed again.
+ * Looks at an existing SQLite file read-only. Reading a WAL-mode file makes
+ * SQLite create -wal/-shm companions even then; `cleanUp` removes the ones this
+ * look created, for when the file is refused.
  */
-function probe(file: string): Probe {
+function probe(file: string): { found: Probe; cleanUp: () => void } {
   const companions = [`${file}-wal`, `${file}-shm`].filter((f) => !fs.existsSync(f));
   let ro: Database.Database | null = null;
-  let result: Probe;
+  let found: Probe;
   try {
     ro = new Database(file, { readonly: true, fileMustExist: true });
     const appId = ro.pragma('application_id', { simple: true }) as number;
     const version = ro.pragma('user_version', { simple: true }) as number;
     ro.prepare('SELECT count(*) FROM sqlite_schema').get();
-    result = appId === APPLICATION_ID && version > 0 ? { kind: 'store', version } : { kind: 'foreign' };
+    found = appId === APPLICATION_ID && version > 0 ? { kind: 'store', version } : { kind: 'foreign' };
   } catch (e) {
-    result = { kind: 'corrupt', reason: e instanceof Error ? e.message : String(e) };
+    found = { kind: 'corrupt', reason: e instanceof Error ? e.message : String(e) };
   } finally {
     ro?.close();
   }
-  if (result.kind !== 'store') {
+  const cleanUp = () => {
     for (const f of companions) {
       try {
         if (fs.existsSync(f) && (f.endsWith('-shm') || fs.statSync(f).size === 0)) fs.unlinkSync(f);
       } catch {
-        // A companion we cannot remove is harmless: SQLite ignores an empty one.
+        // A leftover empty companion is harmless: SQLite ignores it.
       }
     }
-  }
-  return result;
+  };
+  return { found, cleanUp };
 }
 
 /**
@@ -100,11 +100,15 @@ export function openStore(file: string, opts: OpenStoreOptions = {}): Store {
   if (!fresh) {
     const nothing = 'nothing was changed';
     if (!headerBytes(file).equals(SQLITE_MAGIC)) throw new UserError(`${file} is not a loopledger store (not an SQLite database); ${nothing}`);
-    const p = probe(file);
-    if (p.kind === 'corrupt') throw new UserError(`${file} cannot be read as a loopledger store (corrupt or not a database: ${p.reason}); ${nothing}`);
-    if (p.kind === 'foreign') throw new UserError(`${file} is an SQLite database of another program, not a loopledger store; ${nothing}`);
-    if (p.version > latest) {
-      throw new UserError(`${file} was written by a newer loopledger (store schema ${p.version}, this version knows up to ${latest}); upgrade loopledger to open it; ${nothing}`);
+    const { found: p, cleanUp } = probe(file);
+    const refuse = (why: string): never => {
+      cleanUp();
+      throw new UserError(`${file} ${why}; ${nothing}`);
+    };
+    if (p.kind === 'corrupt') refuse(`cannot be read as a loopledger store (corrupt or not a database: ${p.reason})`);
+    if (p.kind === 'foreign') refuse('is an SQLite database of another program, not a loopledger store');
+    if (p.kind === 'store' && p.version > latest) {
+      refuse(`was written by a newer loopledger (store schema ${p.version}, this version knows up to ${latest}); upgrade loopledger to open it`);
     }
   }
   const db = new Database(file, { timeout: 5000 });
