@@ -1,8 +1,8 @@
-import { createRequire } from 'node:module';
 import { ExpressionError } from '../model/errors.js';
 import type { TransferFunction } from '../model/tf.js';
 import { polyAdd, polyDegree, polyIsZero, polyMul, polyPow, polyScale, polyTrim } from './poly.js';
 import { leafColumns, type ExprNode } from './parse-columns.js';
+import { buildMathjsParser } from './parse-mathjs.js';
 
 /**
  * Expression text -> transfer function. mathjs only tokenises and builds the tree;
@@ -25,13 +25,9 @@ interface Rational {
 
 let mathParse: ((text: string) => ExprNode) | null = null;
 
-/** Loads the self-contained mathjs build on first use (synchronous, ~40 ms, and only by commands that parse). */
+/** The mathjs parser, built on first use. */
 function parser(): (text: string) => ExprNode {
-  if (mathParse === null) {
-    const req = createRequire(import.meta.url);
-    const m = req('mathjs/lib/browser/math.js') as { parse: (text: string) => ExprNode };
-    mathParse = m.parse;
-  }
+  mathParse ??= buildMathjsParser();
   return mathParse;
 }
 
@@ -48,7 +44,7 @@ class Walker {
   }
 
   constant(v: number, node: ExprNode): Rational {
-    if (!Number.isFinite(v)) this.fail(`number out of range in '${this.text.trim()}'; use values below 1e308`, node);
+    if (!Number.isFinite(v)) this.fail('number out of range; use magnitudes below 1e308', node);
     return { num: [v], den: [1], delayS: null };
   }
 
