@@ -1,5 +1,5 @@
 import { formatNumber } from '../model/units.js';
-import { ERROR_CONSTANT_UNIT, errorConstantOf, gainForErrorConstants, type ErrorConstantTarget } from './targets.js';
+import { ERROR_CONSTANT_UNIT, gainForErrorConstants, type ErrorConstantTarget } from './targets.js';
 import type { DesignVariant } from './types.js';
 import type { Worksheet } from './worksheet.js';
 
@@ -26,7 +26,3 @@ export function gainFromTargets(v: DesignVariant, targets: readonly ErrorConstan
   return { ok: true, k: g.k };
 }
 
-/** The error constant K·F reaches on a variant (for the worksheet). */
-export function achievedConstant(v: DesignVariant, k: number, t: ErrorConstantTarget): number {
-  return k * errorConstantOf(v.tf, t.kind);
-}

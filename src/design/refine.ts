@@ -1,15 +1,36 @@
 import type { Block } from '../model/blocks.js';
+import { gainCrossoversRadS } from '../analysis/crossovers.js';
+import { phaseMarginsDeg } from '../analysis/margins.js';
 import { brentRoot } from '../analysis/scalar.js';
-import { shapeWithBlocks, shapeWorstPmDeg } from './shape.js';
+import { tfSeries } from '../analysis/tf.js';
+import { compensatorTf } from './blocks-tf.js';
+import { blockShape, shapeSeries } from './shape.js';
 import type { DesignVariant } from './types.js';
 
 /** How close the refined phase margin must come to its target (deg). */
 export const PM_TOLERANCE_DEG = 0.05;
 
-/** The phase margin a `pm >=` requirement sees on the worst variant when `blocks` are added to each. */
+/**
+ * Designs aim this far above the stated margin so that rounding in the last digit
+ * never turns "exactly the target" into a miss of a `pm >=` requirement.
+ */
+export const AIM_ABOVE_DEG = 0.02;
+
+/**
+ * The worst phase margin over every gain crossover of every variant when `blocks` are
+ * added to each, signed (a negative margin counts as worse than any positive one, so
+ * refinement never settles on the wrong side of -1); Infinity without a crossover.
+ * Crossovers are found as the analysis core finds them.
+ */
 export function worstPmOver(variants: readonly DesignVariant[], blocks: readonly Block[]): number {
+  const comp = compensatorTf({ blocks });
+  const compShapes = blocks.map(blockShape);
   let worst = Infinity;
-  for (const v of variants) worst = Math.min(worst, shapeWorstPmDeg(shapeWithBlocks(v.shape, blocks)));
+  for (const v of variants) {
+    const f = shapeSeries([v.shape, ...compShapes]);
+    const pms = phaseMarginsDeg(f, gainCrossoversRadS(tfSeries(comp, v.tf), f, null));
+    for (const pm of pms) worst = Math.min(worst, pm);
+  }
   return worst;
 }
 
@@ -18,14 +39,14 @@ export interface RefineResult {
   /** The parameter chosen. */
   readonly x: number;
   readonly pmDeg: number;
-  /** True when pmDeg >= target (minus the tolerance). */
+  /** True when pmDeg >= target. */
   readonly reached: boolean;
   /** True when pmDeg equals the target within PM_TOLERANCE_DEG. */
   readonly exact: boolean;
 }
 
 /**
- * Finds the parameter x at which pmOf(x) equals targetDeg. The grid brackets the
+ * Finds the parameter x at which pmOf(x) equals targetDeg (aiming AIM_ABOVE_DEG above it). The grid brackets the
  * crossing; Brent's method refines it. 'first' takes the smallest x where the margin
  * rises through the target (least lead), 'last' the largest x where it falls through
  * it (highest crossover). When the whole grid meets the target, the end that asks the
@@ -36,11 +57,12 @@ export function refineParameter(pmOf: (x: number) => number, grid: readonly numb
     const v = pmOf(x);
     return Number.isNaN(v) ? -Infinity : v;
   });
-  const d = vals.map((v) => v - targetDeg);
+  const aim = targetDeg + AIM_ABOVE_DEG;
+  const d = vals.map((v) => v - aim);
   const result = (x: number, pm: number): RefineResult => ({
     x,
     pmDeg: pm,
-    reached: pm >= targetDeg - PM_TOLERANCE_DEG,
+    reached: pm >= targetDeg,
     exact: Math.abs(pm - targetDeg) <= PM_TOLERANCE_DEG,
   });
   let bracket = -1;
@@ -59,10 +81,10 @@ export function refineParameter(pmOf: (x: number) => number, grid: readonly numb
     for (let i = 1; i < vals.length; i++) if (vals[i]! > vals[best]!) best = i;
     return result(grid[best]!, vals[best]!);
   }
-  const x = brentRoot((t) => pmOf(t) - targetDeg, grid[bracket]!, grid[bracket + 1]!, 1e-12);
+  const x = brentRoot((t) => pmOf(t) - aim, grid[bracket]!, grid[bracket + 1]!, 1e-12);
   const pm = pmOf(x);
   // A jump (a crossover appearing) can masquerade as a root: then keep the side that meets the target.
-  if (Math.abs(pm - targetDeg) > PM_TOLERANCE_DEG) {
+  if (Math.abs(pm - aim) > PM_TOLERANCE_DEG) {
     const side = pick === 'first' ? bracket + 1 : bracket;
     return result(grid[side]!, vals[side]!);
   }

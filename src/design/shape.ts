@@ -103,26 +103,3 @@ export function phaseCrossingsRadS(f: Factored, phaseDeg: number, extraRadS: rea
   const target = phaseDeg / RAD;
   return signChangesRadS((w) => factoredAt(f, w, buf)[1]! - target, shapeGridRadS(f, extraRadS));
 }
-
-/** A phase in degrees wrapped into (-180, 180]. */
-export function wrapDeg(x: number): number {
-  let y = x % 360;
-  if (y <= -180) y += 360;
-  if (y > 180) y -= 360;
-  return y;
-}
-
-/** Gain crossovers of a loop shape with the phase margin at each (wrapped into (-180, 180], DESIGN.md). */
-export function shapeMargins(f: Factored, extraRadS: readonly number[] = []): { crossoversRadS: number[]; pmDeg: number[] } {
-  const crossoversRadS = magnitudeCrossingsRadS(f, 1, extraRadS);
-  return { crossoversRadS, pmDeg: crossoversRadS.map((w) => wrapDeg(180 + shapePhaseDeg(f, w))) };
-}
-
-/**
- * The phase margin a `pm >=` requirement is judged on: the smallest |PM| over all
- * gain crossovers (Infinity without a crossover), as in src/analysis/requirements.ts.
- */
-export function shapeWorstPmDeg(f: Factored, extraRadS: readonly number[] = []): number {
-  const { pmDeg } = shapeMargins(f, extraRadS);
-  return pmDeg.length === 0 ? Infinity : Math.min(...pmDeg.map(Math.abs));
-}

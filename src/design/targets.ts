@@ -1,6 +1,6 @@
 import type { Requirement } from '../model/requirements.js';
 import type { TransferFunction } from '../model/tf.js';
-import { polyTrim } from '../analysis/poly.js';
+import { errorConstants } from '../analysis/error-constants.js';
 
 /** Which error constant a requirement or option names: position, velocity, acceleration. */
 export type ErrorConstantKind = 'kp' | 'kv' | 'ka';
@@ -14,33 +14,9 @@ export interface ErrorConstantTarget {
 const ORDER: Record<ErrorConstantKind, number> = { kp: 0, kv: 1, ka: 2 };
 export const ERROR_CONSTANT_UNIT: Record<ErrorConstantKind, string> = { kp: '', kv: '1/s', ka: '1/s^2' };
 
-/** Index of the lowest nonzero coefficient (the number of roots at the origin). */
-function lowestIndex(p: readonly number[]): number {
-  const i = p.findIndex((c) => c !== 0);
-  return i < 0 ? Infinity : i;
-}
-
-/**
- * lim s->0 s^n F(s) for n = 0, 1, 2 (kp, kv, ka), signed, read exactly off the
- * trailing coefficients; +-Infinity when F has more integrators than n, 0 when fewer.
- */
+/** lim s->0 s^n F(s) for n = 0, 1, 2 (kp, kv, ka), signed; +-Infinity above that type, 0 below. */
 export function errorConstantOf(f: TransferFunction, kind: ErrorConstantKind): number {
-  const num = polyTrim(f.num);
-  const den = polyTrim(f.den);
-  const i = lowestIndex(num);
-  const j = lowestIndex(den);
-  if (i === Infinity) return 0;
-  const type = j - i;
-  const ratio = num[i]! / den[j]!;
-  const n = ORDER[kind];
-  if (type > n) return ratio > 0 ? Infinity : -Infinity;
-  if (type < n) return 0;
-  return ratio;
-}
-
-/** Number of integrators of F (poles at the origin minus zeros there). */
-export function systemTypeOf(f: TransferFunction): number {
-  return lowestIndex(polyTrim(f.den)) - lowestIndex(polyTrim(f.num));
+  return errorConstants(f)[kind];
 }
 
 /** The error-constant limits among requirements (`kp>=`, `kv>=`, `ka>=`). */
@@ -69,7 +45,7 @@ export function gainForErrorConstants(f: TransferFunction, targets: readonly Err
     const c = errorConstantOf(f, t.kind);
     if (!Number.isFinite(c)) continue;
     if (c === 0) {
-      const type = systemTypeOf(f);
+      const type = errorConstants(f).systemType;
       return { ok: false, reason: `${t.kind} >= ${t.value} needs a loop of type ${ORDER[t.kind]} or higher, but plant and kept blocks are type ${type}: add an integrator (an 'int' or 'pi' block) or use method pid` };
     }
     const k = t.value / c;

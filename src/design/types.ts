@@ -10,6 +10,8 @@ export interface DesignVariant {
   readonly tf: TransferFunction;
   /** The same in factored form (Bode magnitude and continuous phase). */
   readonly shape: Factored;
+  /** The plant alone, factored (its poles are where resonances are looked for). */
+  readonly plant: Factored;
 }
 
 /** A candidate set of designed blocks and the phase margin it gives the worst variant. */
