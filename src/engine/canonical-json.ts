@@ -40,12 +40,16 @@ export function canonicalJson(v: unknown): string {
 }
 
 /**
- * Readable canonical JSON: two-space indent, but arrays of plain numbers or
- * strings on one line, so a changed coefficient is a one-line diff.
+ * Readable canonical JSON: two-space indent, but arrays of plain values, and
+ * short objects of plain values (a block, a requirement, a coefficient set), on
+ * one line, so a changed number is a one-line diff.
  */
 export function prettyJson(v: unknown): string {
   return pretty(normalise(v, '$'), '') + '\n';
 }
+
+/** Longest object written on one line. */
+const INLINE_MAX = 100;
 
 function pretty(v: Json, indent: string): string {
   if (v === null || typeof v !== 'object') return JSON.stringify(v);
@@ -57,6 +61,11 @@ function pretty(v: Json, indent: string): string {
   }
   const keys = Object.keys(v);
   if (keys.length === 0) return '{}';
+  const flat = (x: Json) => x === null || typeof x !== 'object' || (Array.isArray(x) && x.every((y) => y === null || typeof y !== 'object'));
+  if (keys.every((k) => flat(v[k]!))) {
+    const line = '{' + keys.map((k) => `${JSON.stringify(k)}: ${pretty(v[k]!, inner)}`).join(', ') + '}';
+    if (line.length <= INLINE_MAX) return line;
+  }
   return '{\n' + keys.map((k) => `${inner}${JSON.stringify(k)}: ${pretty(v[k]!, inner)}`).join(',\n') + '\n' + indent + '}';
 }
 
