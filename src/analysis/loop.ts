@@ -20,22 +20,22 @@ import { tfIsProper, tfSeries, tfValueAtInfinity } from './tf.js';
  * cheaper and better conditioned than the product) and shared by every step.
  */
 
-/** With a delay there are infinitely many phase crossovers: list those with |L| >= this (GM <= 40 dB), and always the first. */
-const DELAY_LIST_MIN_MAG = 0.01;
+/** With a delay there are infinitely many phase crossovers: list those with |L| >= this (GM <= 60 dB). */
+const DELAY_LIST_MIN_MAG = 1e-3;
 const DELAY_LIST_MAX = 50;
 
 /** Frequency samples of the loop, refined where the phase turns fast (and, with a delay, only where |L| is not negligible). */
 function loopSamples(f: Factored, knownCrossoversRadS: readonly number[]): LoopSamples {
-  const [lo, hi] = frequencyRangeRadS(f, knownCrossoversRadS);
+  const [lo, hi0] = frequencyRangeRadS(f, knownCrossoversRadS);
+  let hi = hi0;
+  if (f.delayS > 0 && f.poles.length > f.zeros.length) {
+    // Reach the frequency above which |L| stays below the listing threshold (it falls monotonically up there).
+    const v = new Float64Array(4);
+    for (let i = 0; i < 30 && Math.exp(factoredAt(f, hi, v)[0]!) >= DELAY_LIST_MIN_MAG / 2; i++) hi *= 4;
+  }
   const base = loopGridRadS(f, lo, hi);
   const lnSmall = Math.log(DELAY_LIST_MIN_MAG / 2);
-  let firstFound = f.delayS === 0;
-  const level = (p: number) => Math.floor((p + Math.PI) / (2 * Math.PI));
-  return sampleLoop(f, base, (_wa, la, pa, _wb, lb, pb) => {
-    const need = Math.abs(pb - pa) > Math.PI / 6 && (f.delayS === 0 || !firstFound || Math.max(la, lb) >= lnSmall);
-    if (!need && !firstFound && level(pa) !== level(pb)) firstFound = true;
-    return need;
-  });
+  return sampleLoop(f, base, (_wa, la, pa, _wb, lb, pb) => Math.abs(pb - pa) > Math.PI / 6 && (f.delayS === 0 || Math.max(la, lb) >= lnSmall));
 }
 
 /** Finite phase crossovers, plus 0 where L(0) < 0 and Infinity where L(inf) < 0 (delay-free); the delay listing rule applied. */
@@ -43,7 +43,7 @@ function allPhaseCrossovers(loop: TransferFunction, f: Factored, s: LoopSamples,
   let finite = phaseCrossoversRadS(loop, f, s);
   if (f.delayS > 0) {
     const v = new Float64Array(4);
-    finite = finite.filter((w, i) => i === 0 || Math.exp(factoredAt(f, w, v)[0]!) >= DELAY_LIST_MIN_MAG);
+    finite = finite.filter((w) => Math.exp(factoredAt(f, w, v)[0]!) >= DELAY_LIST_MIN_MAG);
     if (finite.length > DELAY_LIST_MAX) {
       warnings.push(`delay: only the first ${DELAY_LIST_MAX} phase crossovers (up to ${finite[DELAY_LIST_MAX - 1]!.toPrecision(4)} rad/s) are listed`);
       finite = finite.slice(0, DELAY_LIST_MAX);

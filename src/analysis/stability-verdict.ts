@@ -1,7 +1,7 @@
 import type { Complex, TransferFunction } from '../model/tf.js';
 import type { Factored } from './factors.js';
 import { polyAdd, polyDegree } from './poly.js';
-import { approximateClosedLoopPoles, classifyPoles, closedLoopPoles, rhpZeroCount } from './stability.js';
+import { classifyPoles, closedLoopPoles, delayClosedLoopPoles, rhpZeroCount } from './stability.js';
 
 /** The stability verdict of a loop, its closed-loop poles (approximate with a delay) and what to warn about. */
 export interface StabilityVerdict {
@@ -10,9 +10,9 @@ export interface StabilityVerdict {
   readonly warnings: string[];
 }
 
-/** Sorted for display: slowest (smallest magnitude) first, upper half-plane member of a pair first. */
+/** Sorted for display: rightmost (least damped) first, upper half-plane member of a pair first. */
 function sortPoles(ps: Complex[]): Complex[] {
-  return ps.sort((a, b) => Math.hypot(a.re, a.im) - Math.hypot(b.re, b.im) || b.im - a.im);
+  return ps.sort((a, b) => b.re - a.re || b.im - a.im);
 }
 
 /** Decides stability on the closed loop: poles without delay, the encirclement count with one. */
@@ -31,9 +31,8 @@ export function loopStability(loop: TransferFunction, f: Factored, gainCrossover
     if (c === 'marginal') warnings.push('closed-loop pole on the imaginary axis: marginally stable, counted as not stable');
     return { stable: c === 'stable', poles, warnings };
   }
-  const lastCross = gainCrossoversRadS[gainCrossoversRadS.length - 1] ?? 0;
-  const poles = sortPoles(approximateClosedLoopPoles(loop, 3 + 2 * lastCross * loop.delayS));
-  warnings.push('closed-loop poles approximate (delay)');
+  const poles = sortPoles(delayClosedLoopPoles(loop));
+  warnings.push('closed-loop poles approximate (delay): a finite subset of infinitely many, each refined on the exact characteristic equation');
   if (degN > degD) {
     warnings.push('improper loop with a delay: infinitely many closed-loop poles in the right half-plane');
     return { stable: false, poles, warnings };

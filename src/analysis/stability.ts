@@ -114,9 +114,71 @@ export function padeDelay(delayS: number, m: number): [number[], number[]] {
   return [num, den];
 }
 
-/** Closed-loop poles with the delay replaced by a Pade approximant: for display, never for deciding stability. */
-export function approximateClosedLoopPoles(loop: TransferFunction, orderHint: number): Complex[] {
-  const m = Math.max(2, Math.min(8, Math.ceil(orderHint)));
-  const [pn, pd] = padeDelay(loop.delayS, m);
-  return polyRoots(polyAdd(polyMul(loop.den, pd), polyMul(loop.num, pn)));
+/** Complex Horner for p and p' at s (ascending coefficients): [pr, pi, dr, di]. */
+function evalWithDerivative(p: readonly number[], re: number, im: number): [number, number, number, number] {
+  let vr = 0, vi = 0, dr = 0, di = 0;
+  for (let k = p.length - 1; k >= 0; k--) {
+    const ndr = dr * re - di * im + vr;
+    di = dr * im + di * re + vi;
+    dr = ndr;
+    const nvr = vr * re - vi * im + p[k]!;
+    vi = vr * im + vi * re;
+    vr = nvr;
+  }
+  return [vr, vi, dr, di];
+}
+
+/** Newton's method on F(s) = D(s) + N(s) e^{-sT} from s0; the root, or null when it does not converge to a small residual. */
+function newtonDelayRoot(loop: TransferFunction, s0: Complex): Complex | null {
+  const T = loop.delayS;
+  let re = s0.re;
+  let im = s0.im;
+  for (let it = 0; it < 60; it++) {
+    const [dr, di, ddr, ddi] = evalWithDerivative(loop.den, re, im);
+    const [nr, ni, dnr, dni] = evalWithDerivative(loop.num, re, im);
+    const mag = Math.exp(-T * re);
+    const er = mag * Math.cos(T * im);
+    const ei = -mag * Math.sin(T * im);
+    const ner = nr * er - ni * ei;
+    const nei = nr * ei + ni * er;
+    const fr = dr + ner;
+    const fi = di + nei;
+    // F' = D' + (N' - T N) e^{-sT}
+    const gr = dnr - T * nr;
+    const gi = dni - T * ni;
+    const fpr = ddr + gr * er - gi * ei;
+    const fpi = ddi + gr * ei + gi * er;
+    const den = fpr * fpr + fpi * fpi;
+    if (!Number.isFinite(den) || den === 0) return null;
+    const sr = (fr * fpr + fi * fpi) / den;
+    const si = (fi * fpr - fr * fpi) / den;
+    re -= sr;
+    im -= si;
+    const scale = Math.hypot(dr, di) + Math.hypot(ner, nei);
+    if (Math.hypot(sr, si) <= 1e-15 * Math.hypot(re, im)) {
+      return Math.hypot(fr, fi) <= 1e-10 * scale ? { re, im } : null;
+    }
+  }
+  return null;
+}
+
+/**
+ * Closed-loop poles of a delay loop: the roots of a Pade approximant only serve as
+ * starting points; each is refined by Newton's method on the exact equation
+ * D + N e^{-sT} = 0. There are infinitely many roots: this lists those reached.
+ */
+export function delayClosedLoopPoles(loop: TransferFunction, padeOrder = 12): Complex[] {
+  const [pn, pd] = padeDelay(loop.delayS, padeOrder);
+  const seeds = polyRoots(polyAdd(polyMul(loop.den, pd), polyMul(loop.num, pn)));
+  const found: Complex[] = [];
+  for (const seed of seeds) {
+    if (seed.im < 0) continue;
+    const r = newtonDelayRoot(loop, seed);
+    if (r === null || r.im < -1e-9 * Math.hypot(r.re, r.im)) continue;
+    const m = Math.hypot(r.re, r.im);
+    const root = Math.abs(r.im) <= 1e-10 * m ? { re: r.re, im: 0 } : r;
+    if (found.some((f) => Math.hypot(f.re - root.re, f.im - root.im) <= 1e-8 * m)) continue;
+    found.push(root);
+  }
+  return found.flatMap((r) => (r.im === 0 ? [r] : [r, { re: r.re, im: -r.im }]));
 }
