@@ -61,30 +61,84 @@ export function loopModes(plant: TransferFunction, comp: TransferFunction, poles
   });
 }
 
-/** Simulation plan: step length, number of steps, and the steps per delay (0 without delay). */
-export interface StepPlan {
-  readonly hS: number;
+/** One stretch of the grid: steps of stride base steps each. */
+export interface PlanLevel {
+  readonly stride: number;
   readonly steps: number;
-  readonly delaySteps: number;
+}
+
+/**
+ * Simulation plan. The grid starts with steps of h0 and doubles the step whenever every
+ * mode that the longer step could not follow has died away (a stiff loop would need
+ * millions of uniform steps). With a delay, h0 = T / delayTicks with delayTicks a power of
+ * two and the step never exceeds T, so t - T is always a grid point of the past.
+ */
+export interface StepPlan {
+  readonly h0S: number;
+  /** The delay in base steps (a power of two), or 0 without delay. */
+  readonly delayTicks: number;
+  readonly levels: readonly PlanLevel[];
   readonly durationS: number;
   readonly warnings: string[];
 }
 
 /** |p| h at or below this keeps the cubic pieces accurate to ~1e-5 of a mode's size. */
 const RESOLVE = 0.25;
+/** A mode no longer needs resolving once its size is below this fraction of the scale. */
+const RESOLVE_EPS = 1e-6;
 /** Modes are followed until they fall to this fraction of the final value. */
 const TAIL = 1e-4;
 /** Fewest steps over the whole run, so that slow responses are drawn smoothly. */
-const MIN_STEPS = 400;
+const MIN_STEPS = 200;
+
+interface Weighted {
+  mag: number;
+  sigma: number;
+  weight: number;
+}
+
+/** The levels for a base step h0 up to durationS; null when more than maxSteps are needed. */
+function schedule(ms: readonly Weighted[], h0S: number, hMaxS: number, maxStride: number, durationS: number, maxSteps: number): PlanLevel[] | null {
+  const levels: PlanLevel[] = [];
+  let tick = 0;
+  let stride = 1;
+  let total = 0;
+  const endTick = durationS / h0S;
+  for (;;) {
+    const next = stride * 2;
+    let switchS = Infinity;
+    if (next <= maxStride && next * h0S <= hMaxS) {
+      switchS = 0;
+      for (const m of ms) {
+        if (m.mag * next * h0S <= RESOLVE || m.weight <= RESOLVE_EPS) continue;
+        switchS = Math.max(switchS, m.sigma > 0 ? Math.log(m.weight / RESOLVE_EPS) / m.sigma : Infinity);
+      }
+    }
+    const switchTick = switchS / h0S;
+    if (switchTick >= endTick) {
+      const steps = Math.max(1, Math.ceil((endTick - tick) / stride));
+      levels.push({ stride, steps });
+      return total + steps > maxSteps ? null : levels;
+    }
+    let steps = Math.max(0, Math.ceil((switchTick - tick) / stride));
+    // The next level starts on a multiple of its own stride.
+    if ((tick / stride + steps) % 2 === 1) steps++;
+    total += steps;
+    if (total > maxSteps) return null;
+    if (steps > 0) levels.push({ stride, steps });
+    tick += steps * stride;
+    stride = next;
+  }
+}
 
 /**
- * Duration and step from the closed-loop modes; yScale and uScale are the sizes against which
- * mode amplitudes count; extraRateRadS is a further rate to resolve (open-loop poles that
- * act alone while the delay holds the loop open).
+ * Duration and grid from the closed-loop modes; yScale and uScale are the sizes against
+ * which mode amplitudes count; openLoopPoles act alone while the delay holds the loop
+ * open, so they must be resolved too.
  */
 export function planStep(
   modes: readonly Mode[],
-  extraRateRadS: number,
+  openLoopPoles: readonly Complex[],
   delayS: number,
   yScale: number,
   uScale: number,
@@ -92,42 +146,41 @@ export function planStep(
 ): StepPlan {
   const warnings: string[] = [];
   const maxSamples = Math.max(10, Math.floor(opts.maxSamples ?? 20_000));
+  const ms: Weighted[] = modes.map(({ p, yAmp, uAmp }) => ({ mag: Math.hypot(p.re, p.im), sigma: -p.re, weight: Math.max(yAmp / yScale, uAmp / uScale) }));
   let tEnd = 0;
-  let wFast = extraRateRadS;
-  for (const { p, yAmp, uAmp } of modes) {
-    const mag = Math.hypot(p.re, p.im);
-    const weight = Math.max(yAmp / yScale, uAmp / uScale);
-    if (!(weight > 1e-9)) continue;
-    wFast = Math.max(wFast, mag);
-    const sigma = -p.re;
-    if (sigma > 0) tEnd = Math.max(tEnd, Math.min(Math.log(Math.max(weight, 1) / TAIL), 40) / sigma);
-    else tEnd = Math.max(tEnd, 20 / Math.max(mag, 1e-12));
+  for (const m of ms) {
+    if (m.sigma > 0) tEnd = Math.max(tEnd, Math.min(Math.log(m.weight / TAIL), 40) / m.sigma);
+    else if (m.weight > TAIL) tEnd = Math.max(tEnd, 20 / Math.max(m.mag, 1e-12));
   }
+  for (const p of openLoopPoles) ms.push({ mag: Math.hypot(p.re, p.im), sigma: -p.re, weight: 1 });
+  const wFast = Math.max(0, ...ms.filter((m) => m.weight > RESOLVE_EPS).map((m) => m.mag));
   if (tEnd === 0) tEnd = wFast > 0 ? 10 / wFast : 1;
   tEnd += 2 * delayS;
   const durationS = opts.durationS ?? tEnd;
-  let hS = Math.min(wFast > 0 ? RESOLVE / wFast : Infinity, durationS / MIN_STEPS);
-  let delaySteps = 0;
+  const hMaxS = durationS / MIN_STEPS;
+  let h0S = Math.min(wFast > 0 ? RESOLVE / wFast : Infinity, hMaxS);
+  let delayTicks = 0;
   if (delayS > 0) {
-    delaySteps = Math.max(1, Math.ceil(delayS / hS));
-    hS = delayS / delaySteps;
+    delayTicks = 2 ** Math.max(0, Math.ceil(Math.log2(delayS / h0S)));
+    h0S = delayS / delayTicks;
   }
-  let steps = Math.ceil(durationS / hS);
-  if (steps > maxSamples) {
-    if (delayS > 0) {
-      // The delay must stay a whole number of steps: coarsen down to one step per delay at most.
-      delaySteps = Math.max(1, Math.floor((delaySteps * maxSamples) / steps));
-      hS = delayS / delaySteps;
-      steps = Math.ceil(durationS / hS);
-      if (steps > 10 * maxSamples) {
-        steps = 10 * maxSamples;
-        warnings.push(`step response cut at ${(steps * hS).toPrecision(3)} s: the delay is very short next to the slowest mode`);
-      }
-    } else {
-      steps = maxSamples;
-      hS = durationS / steps;
-      if (hS * wFast > 4 * RESOLVE) warnings.push('step response: fastest modes are coarsely sampled; peak values may be slightly low');
+  const maxStride = delayS > 0 ? delayTicks : Infinity;
+  let levels = schedule(ms, h0S, hMaxS, maxStride, durationS, maxSamples);
+  let coarsened = false;
+  while (!levels) {
+    if (delayS > 0 && delayTicks === 1) {
+      // One step per delay is the coarsest a delay line allows: run longer than asked, or cut.
+      const steps = Math.min(Math.ceil(durationS / h0S), 10 * maxSamples);
+      levels = [{ stride: 1, steps }];
+      if (steps * h0S < durationS) warnings.push(`step response cut at ${(steps * h0S).toPrecision(3)} s: the delay is very short next to the slowest mode`);
+      break;
     }
+    coarsened = true;
+    h0S *= 2;
+    if (delayS > 0) delayTicks /= 2;
+    levels = schedule(ms, h0S, Math.max(hMaxS, h0S), delayS > 0 ? delayTicks : Infinity, durationS, maxSamples);
   }
-  return { hS, steps, delaySteps, durationS: steps * hS, warnings };
+  if (coarsened && h0S * wFast > 4 * RESOLVE) warnings.push('step response: fastest modes are coarsely sampled; peak values may be slightly low');
+  const total = levels.reduce((acc, l) => acc + l.steps * l.stride, 0);
+  return { h0S, delayTicks, levels, durationS: total * h0S, warnings };
 }

@@ -47,10 +47,9 @@ function planningPoles(plant: TransferFunction, comp: TransferFunction): Complex
   return polyRoots(polyAdd(polyMul(comp.den, plant.den), polyMul(comp.num, plant.num)));
 }
 
-/** With a delay the loop runs open for a while, so C and P show their own poles: the fastest of them must be resolved too. */
-function openLoopRateRadS(plant: TransferFunction, comp: TransferFunction): number {
-  if (plant.delayS + comp.delayS === 0) return 0;
-  return Math.max(0, ...[...polyRoots(comp.den), ...polyRoots(plant.den)].map((p) => Math.hypot(p.re, p.im)));
+/** With a delay the loop runs open for a while, so C and P show their own poles, which must be resolved too. */
+function openLoopPoles(plant: TransferFunction, comp: TransferFunction): Complex[] {
+  return plant.delayS + comp.delayS === 0 ? [] : [...polyRoots(comp.den), ...polyRoots(plant.den)];
 }
 
 interface Run {
@@ -63,8 +62,8 @@ function run(sys: LoopSystem, plant: TransferFunction, comp: TransferFunction, p
   const modes = loopModes(plant, comp, poles);
   const yScale = yF !== 0 ? Math.abs(yF) : Math.max(1e-300, ...modes.map((m) => (Number.isFinite(m.yAmp) ? m.yAmp : 0)));
   const uScale = Math.max(1e-300, Math.abs(sys.dur), ...modes.map((m) => (Number.isFinite(m.uAmp) ? m.uAmp : 0)));
-  const plan = planStep(modes, openLoopRateRadS(plant, comp), sys.delayS, yScale, uScale, opts);
-  return { trace: simulateStep(sys, plan.hS, plan.delaySteps, plan.steps), plan };
+  const plan = planStep(modes, openLoopPoles(plant, comp), sys.delayS, yScale, uScale, opts);
+  return { trace: simulateStep(sys, plan), plan };
 }
 
 /** Why a loop cannot be simulated, or null; improper or algebraically singular loops. */
