@@ -63,7 +63,10 @@ function appliedVersions(db: Database.Database): Set<number> {
  * Returns the schema version afterwards.
  */
 export function applyMigrations(db: Database.Database, migrations: readonly Migration[], now: () => Date = () => new Date()): number {
+  // The common case, nothing pending, is decided without taking the write lock.
+  const applied = appliedVersions(db);
   for (const m of migrations) {
+    if (applied.has(m.version)) continue;
     db.transaction(() => {
       if (appliedVersions(db).has(m.version)) return;
       const sql = fs.readFileSync(m.file, 'utf8');
