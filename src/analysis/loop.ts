@@ -22,7 +22,7 @@ import { tfIsProper, tfSeries, tfValueAtInfinity } from './tf.js';
 
 /** With a delay there are infinitely many phase crossovers: list those with |L| >= this (GM <= 60 dB). */
 const DELAY_LIST_MIN_MAG = 1e-3;
-const DELAY_LIST_MAX = 50;
+const DELAY_LIST_MAX = 200;
 
 /** Frequency samples of the loop, refined where the phase turns fast (and, with a delay, only where |L| is not negligible). */
 function loopSamples(f: Factored, knownCrossoversRadS: readonly number[]): LoopSamples {
