@@ -65,13 +65,13 @@ export function designLeadBode(variants: readonly DesignVariant[], designIndex: 
   ws.add('uncompensated phase margin', pm0, 'deg');
   ws.add('target phase margin', s.pmDeg, 'deg');
   ws.add('allowance for the crossover shift', s.allowDeg, 'deg');
-  const phi = s.pmDeg - pm0 + s.allowDeg;
-  ws.add('phase to add', phi, 'deg');
-  if (phi <= 0) {
+  if (pm0 >= s.pmDeg) {
     const blocks: Block[] = [{ kind: 'gain', k }];
     const c: Candidate = { blocks, worstPmDeg: worstPmOver(variants, blocks) };
     return { blocks, hand: c, refined: c, worksheet: ws.steps, feasible: true, message: 'the gain alone gives the target phase margin: no lead needed' };
   }
+  const phi = s.pmDeg - pm0 + s.allowDeg;
+  ws.add('phase to add', phi, 'deg');
   const n = s.stages ?? Math.max(1, Math.ceil(phi / s.maxStagePhaseDeg - 1e-9));
   ws.add('stages', n);
   ws.add('phase per stage phi_m', phi / n, 'deg');
