@@ -4,7 +4,7 @@ import {
   colourCurve, gridLines, LABEL_WIDTH, markColumn, markRow, niceAxis, overlay, plotGrid, rowOf, type Axis,
 } from './chart.js';
 import { frequencyScaleLine, logGrid, sampleIndex } from './freq-axis.js';
-import { resampleLog } from './resample.js';
+import { resampleLogKeepingPeaks } from './resample.js';
 import { cleanText } from './sanitize.js';
 import { truncateLines } from './text.js';
 import type { BodeVM } from './view-model.js';
@@ -21,19 +21,22 @@ export interface SketchOptions {
   readonly legend?: readonly [string, string];
 }
 
-// The magnitude window: a loop's gain is read near 0 dB; far above or below is
-// clamped to the edge rather than squeezing the crossover region into one row.
-const MAG_WINDOW_DB = 80;
+// The magnitude window: a loop's gain is read near 0 dB, so the chart spends its
+// rows there, at most 20 dB a row; gain far above or below is clamped to the edge
+// rather than squeezing the crossover region into one row.
+const MAX_DB_PER_ROW = 20;
 const PHASE_STEPS_DEG = [5, 10, 15, 30, 45, 90, 180, 360];
 const PHASE_WINDOW_DEG: [number, number] = [-720, 360];
 
 const finite = (xs: readonly number[]) => xs.filter(Number.isFinite);
 
-/** The magnitude axis: the data's span cut to the window, always including 0 dB. */
+/** The magnitude axis: the data's span, always including 0 dB, cut to the window around 0 dB. */
 function magAxis(values: readonly number[], rows: number): Axis {
   const v = finite(values);
-  const lo = Math.max(Math.min(0, ...v), -MAG_WINDOW_DB);
-  const hi = Math.min(Math.max(0, ...v), MAG_WINDOW_DB);
+  const span = rows * MAX_DB_PER_ROW;
+  let hi = Math.min(Math.max(0, ...v), span / 2);
+  const lo = Math.max(Math.min(0, ...v), hi - span);
+  hi = Math.min(Math.max(0, ...v), lo + span);
   return niceAxis(lo, hi, rows);
 }
 
@@ -65,8 +68,8 @@ export function bodeSketch(b: BodeVM, opts: SketchOptions, other?: BodeVM): stri
   const ws = all.flatMap((x) => finite(x.wRadS).filter((w) => w > 0));
   if (b.wRadS.length < 2 || ws.length < 2 || n < 8) return ['no frequency response to draw' + (n < 8 ? ' (window too narrow)' : '')];
   const grid = logGrid(Math.min(...ws), Math.max(...ws), n);
-  const mags = all.map((x) => resampleLog(x.wRadS, x.magDb, grid));
-  const phases = all.map((x) => resampleLog(x.wRadS, x.phaseDeg, grid));
+  const mags = all.map((x) => resampleLogKeepingPeaks(x.wRadS, x.magDb, grid));
+  const phases = all.map((x) => resampleLogKeepingPeaks(x.wRadS, x.phaseDeg, grid));
   const { magRows, phaseRows } = splitRows(opts.height);
   const mAxis = magAxis(mags.flat(), magRows);
   const pAxis = phaseAxis(phases.flat(), phaseRows, finite(phases.flat()).some((p) => p < -90) || b.phaseCrossoversRadS.length > 0);

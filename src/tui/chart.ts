@@ -68,8 +68,12 @@ export interface ChartGrid {
   readonly axis: Axis;
 }
 
+type Symbols = [string, string, string, string, string, string, string, string, string, string];
+// asciichart draws '┼' on the row it takes for zero (mirrored when the range is
+// not symmetric) and at the first sample: a plain axis reads truer.
+const SYMBOLS: Symbols = ['┤', '┤', '╶', '╴', '─', '╰', '╭', '╮', '╯', '│'];
 /** Symbols for a second series drawn over a first: all ASCII, so the two tell apart without colour. */
-const SECOND_SYMBOLS: [string, string, string, string, string, string, string, string, string, string] = ['┼', '┤', '*', '*', '*', '*', '*', '*', '*', '*'];
+const SECOND_SYMBOLS: Symbols = ['┤', '┤', '*', '*', '*', '*', '*', '*', '*', '*'];
 
 /** Plots one series (already on the sample grid) on `axis`; `second` draws it with `*`. */
 export function plotGrid(series: readonly number[], axis: Axis, second = false): ChartGrid {
@@ -81,7 +85,7 @@ export function plotGrid(series: readonly number[], axis: Axis, second = false):
     max: axis.hi,
     offset: 2,
     format: (x: number) => formatNumber(Math.abs(x) < axis.step * 1e-6 ? 0 : x, 3).padStart(LABEL_WIDTH).slice(-LABEL_WIDTH),
-    ...(second ? { symbols: SECOND_SYMBOLS } : {}),
+    symbols: second ? SECOND_SYMBOLS : SYMBOLS,
   });
   const cells = text.split('\n').map((line) => Array.from(line.trimEnd().padEnd(LABEL_WIDTH + data.length)));
   return { cells, axis };

@@ -30,8 +30,15 @@ function unique(bs: readonly KeyBinding[]): KeyBinding[] {
  * window width so it never wraps.
  */
 export function footerLine(scope: KeyScope, width: number, table: readonly KeyBinding[] = KEY_TABLE): string {
-  const items = unique(activeBindings(scope, table).filter((b) => b.showInFooter)).map((b) => `${b.keyLabel} ${b.label}`);
-  return truncate(items.join('  '), width);
+  const shown = unique(activeBindings(scope, table).filter((b) => b.showInFooter));
+  // Help and quit are what a lost user looks for: they keep their place at the end even when the rest is cut.
+  const last = shown.filter((b) => b.handler === 'help' || b.handler === 'quit');
+  const text = (bs: KeyBinding[]) => bs.map((b) => `${b.keyLabel} ${b.label}`).join('  ');
+  const tail = text(last);
+  const head = text(shown.filter((b) => !last.includes(b)));
+  if (head === '') return truncate(tail, width);
+  if (tail === '') return truncate(head, width);
+  return truncate(head, Math.max(1, width - tail.length - 2)) + '  ' + tail;
 }
 
 /**

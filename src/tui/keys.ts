@@ -95,13 +95,14 @@ export const KEY_TABLE: readonly KeyBinding[] = [
   bind(['enter'], 'Enter', 'change', 'change the selected block or requirement', 'fieldEdit', selected('edit')),
   bind(['a'], 'a', 'add block', 'add a block', 'addBlock', on('edit')),
   bind(['r'], 'r', 'add req', 'add a requirement', 'addRequirement', on('edit')),
-  bind(['d', 'delete'], 'd', 'remove', 'remove the selected row', 'remove', selected('edit')),
+  bind(['d'], 'd', 'remove', 'remove the selected row', 'remove', selected('edit')),
   bind(['s'], 's', 'save', 'save as a new revision (asks for a note)', 'save', on('edit')),
   // Tune.
   bind(['enter'], 'Enter', 'run', 'run the selected method', 'run', selected('tune')),
   bind(['s'], 's', 'save', 'save the proposal as a new revision (asks for a note)', 'apply', (s) => on('tune')(s) && s.hasProposal),
   // Everywhere.
-  bind(['esc'], 'Esc', 'back', 'back (on the overview: clear the filters)', 'back', browsing),
+  bind(['esc'], 'Esc', 'back', 'back to the screen before', 'back', (s) => browsing(s) && s.screen !== 'overview'),
+  bind(['esc'], 'Esc', 'clear', 'clear the filters', 'back', on('overview'), false),
   bind(['?'], '?', 'help', 'this help: every key', 'help', browsing),
   bind(['q'], 'q', 'quit', 'quit', 'quit', browsing),
 ];

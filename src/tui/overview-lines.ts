@@ -66,17 +66,18 @@ export function overviewHeader(vm: OverviewVM, width: number, nowMs: number): st
   const first = `${cleanText(vm.machine)}  [${cleanText(vm.storePath)}]  ${counts}`;
   const lc = vm.lastChange;
   const second = lc
-    ? `last change: ${cleanText(lc.loopId)} r${lc.revision} by ${cleanText(lc.author)}, ${formatWhen(lc.at, nowMs)}: ${cleanText(lc.note)}`
+    ? `last change: ${cleanText(lc.loopId)} r${lc.revision} by ${cleanText(lc.author)}, ${formatWhen(lc.at, nowMs)}${lc.note === "" ? "" : ": " + cleanText(lc.note)}`
     : 'last change: none yet';
   return [truncate(first, width), truncate(second, width)];
 }
 
-/** "pm 31.2deg < 45deg": a missed requirement in a few words. */
-export function missText(m: MissVM, unit: FreqUnit, showVariant: boolean): string {
-  const where = showVariant ? ` (${cleanText(m.variant)})` : '';
-  if (m.value === null) return `${m.metric}: ${cleanText(m.reason ?? 'cannot be computed')}${where}`;
+/** "pm 31.2deg < 45deg (loaded) +2": a missed requirement in a few words, and how many more. */
+export function missText(m: MissVM, unit: FreqUnit): string {
+  const where = m.variant !== '' ? ` (${cleanText(m.variant)})` : '';
+  const more = m.more > 0 ? ` +${m.more}` : '';
+  if (m.value === null) return `${m.metric}: ${cleanText(m.reason ?? 'cannot be computed')}${where}${more}`;
   const rel = m.op === '>=' ? '<' : '>';
-  return `${m.metric} ${formatMetricValue(m.metric, m.value, unit)} ${rel} ${formatMetricValue(m.metric, m.limit, unit)}${where}`;
+  return `${m.metric} ${formatMetricValue(m.metric, m.value, unit)} ${rel} ${formatMetricValue(m.metric, m.limit, unit)}${where}${more}`;
 }
 
 const num = (x: number | null, digits = 3) => (x === null ? '-' : formatNumber(x, digits));
@@ -88,10 +89,10 @@ function columns(unit: FreqUnit): { fixed: Column<PlacedRow>[]; flex: Column<Pla
   return {
     fixed: [
       { title: 'status', width: STATUS_LABEL_WIDTH, align: 'left', cell: ({ row }) => statusLabel(row.status) },
-      { title: 'loop', width: 13, align: 'left', cell: ({ row, depth }) => (depth > 0 ? ' '.repeat(2 * depth - 1) + '`' : '') + cleanText(row.name) },
+      { title: 'loop', width: 11, align: 'left', cell: ({ row, depth }) => (depth > 0 ? ' '.repeat(2 * depth - 1) + '`' : '') + cleanText(row.name) },
       { title: 'rev', width: 4, align: 'right', dropPriority: 2, cell: ({ row }) => `r${row.revision}` },
       { title: 'PM deg', width: 6, align: 'right', cell: ({ row }) => num(row.headline.pmDeg) },
-      { title: 'GM dB', width: 6, align: 'right', cell: ({ row }) => num(row.headline.gmDb) },
+      { title: 'GM dB', width: 5, align: 'right', cell: ({ row }) => num(row.headline.gmDb) },
       { title: `fc ${u}`, width: 6, align: 'right', dropPriority: 4, cell: ({ row }) => freq(row.headline.crossoverRadS, unit) },
       { title: `bw ${u}`, width: 6, align: 'right', dropPriority: 3, cell: ({ row }) => freq(row.headline.bandwidthRadS, unit) },
       { title: 'Ms', width: 4, align: 'right', dropPriority: 1, cell: ({ row }) => num(row.headline.peakSensitivity, 2) },
@@ -101,7 +102,7 @@ function columns(unit: FreqUnit): { fixed: Column<PlacedRow>[]; flex: Column<Pla
       width: 0,
       align: 'left',
       cell: ({ row }) =>
-        row.status === 'error' ? cleanText(row.error ?? 'cannot be analysed') : row.worstMiss ? missText(row.worstMiss, unit, true) : '',
+        row.status === 'pass' ? '' : row.status === 'fail' && row.worstMiss ? missText(row.worstMiss, unit) : cleanText(row.error ?? row.summary),
     },
   };
 }

@@ -22,3 +22,23 @@ export function resample(xs: readonly number[], values: readonly number[], at: r
 export function resampleLog(wRadS: readonly number[], values: readonly number[], grid: readonly number[]): number[] {
   return resample(wRadS.map(Math.log10), values, grid.map(Math.log10));
 }
+
+/**
+ * Like `resampleLog`, but a column whose frequency span holds a sample further
+ * from the straight line shows that sample: a lightly damped resonance or a
+ * notch narrower than one column stays visible instead of falling between columns.
+ */
+export function resampleLogKeepingPeaks(wRadS: readonly number[], values: readonly number[], grid: readonly number[]): number[] {
+  const out = resampleLog(wRadS, values, grid);
+  if (grid.length < 2) return out;
+  const a = Math.log10(grid[0]!);
+  const step = (Math.log10(grid[grid.length - 1]!) - a) / (grid.length - 1);
+  const base = [...out];
+  wRadS.forEach((w, j) => {
+    const i = Math.round((Math.log10(w) - a) / step);
+    const v = values[j]!;
+    if (i < 0 || i >= out.length || !Number.isFinite(v)) return;
+    if (Math.abs(v - base[i]!) > Math.abs(out[i]! - base[i]!)) out[i] = v;
+  });
+  return out;
+}

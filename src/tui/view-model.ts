@@ -25,8 +25,11 @@ export interface MissVM {
   readonly limit: number;
   /** null when the value cannot be computed; `reason` then says why. */
   readonly value: number | null;
+  /** Empty when the loop has one variant. */
   readonly variant: string;
   readonly reason?: string;
+  /** How many other requirements also fail. */
+  readonly more: number;
 }
 
 /** One row of the overview: one loop. */
@@ -39,6 +42,8 @@ export interface OverviewRowVM {
   readonly outerId: string | null;
   readonly revision: number;
   readonly status: LoopStatus;
+  /** The engine's one-line verdict ("unstable closed loop (loaded)"). */
+  readonly summary: string;
   /** Why the loop could not be analysed (status `error`). */
   readonly error?: string;
   readonly headline: HeadlineVM;
@@ -138,21 +143,36 @@ export interface RevisionVM {
   readonly status: LoopStatus | null;
 }
 
-/** One side of a comparison: the loop as it was at one revision. */
-export interface SnapshotVM {
-  readonly revision: number;
-  readonly blocks: readonly Block[];
-  readonly requirements: readonly string[];
-  readonly status: LoopStatus | null;
-  readonly headline: HeadlineVM;
-  readonly bode: BodeVM | null;
+/** One changed item between two revisions; texts in the store's syntax and unit. */
+export interface ChangeVM {
+  readonly what: string;
+  readonly key: string | null;
+  readonly from: string | null;
+  readonly to: string | null;
 }
 
+/** One metric of one variant at two revisions (metric keys as the engine names them, e.g. "phaseMarginDeg"). */
+export interface DeltaVM {
+  readonly variant: string;
+  readonly metric: string;
+  readonly from: number | null;
+  readonly to: number | null;
+  readonly delta: number | null;
+}
+
+/** Two revisions of a loop side by side. */
 export interface CompareVM {
   readonly loopId: string;
   readonly unit: FreqUnit;
-  readonly a: SnapshotVM;
-  readonly b: SnapshotVM;
+  readonly a: RevisionVM;
+  readonly b: RevisionVM;
+  readonly statusA: LoopStatus;
+  readonly statusB: LoopStatus;
+  readonly changes: readonly ChangeVM[];
+  readonly deltas: readonly DeltaVM[];
+  /** Per variant, same order in both. */
+  readonly bodeA: readonly BodeVM[];
+  readonly bodeB: readonly BodeVM[];
 }
 
 /** A live recompute of an unsaved draft: what the loop would be. */

@@ -1,0 +1,142 @@
+import { ConflictError, openMachine, type LoopResult, type Machine } from '../engine/index.js';
+import { UserError } from '../model/errors.js';
+import { formatBlock } from '../engine/block-syntax.js';
+import { formatRequirement } from '../engine/requirement-syntax.js';
+import { checksOf, historyOf, overviewRowsOf, revisionOf, variantsOf } from './engine-adapt.js';
+import { curveVariantsOf, loopCurves, type CurveVariant } from './engine-curves.js';
+import type { DashSource } from './source.js';
+import type {
+  CompareVM, DraftVM, LoopDetailVM, OverviewVM, ProposalVM, SaveResultVM, TuneMethodVM, WhatIfVM,
+} from './view-model.js';
+
+const errorText = (e: unknown) => (e instanceof Error ? e.message : String(e));
+
+/**
+ * The dashboard's source backed by the engine: every read and every write goes
+ * through src/engine, exactly as the command line does, so the two cannot
+ * disagree. Bad text and conflicts come back as results, never as throws.
+ */
+export class EngineSource implements DashSource {
+  constructor(private readonly m: Machine, private readonly author?: string) {}
+
+  dataVersion(): number {
+    return this.m.dataVersion();
+  }
+
+  async overview(): Promise<OverviewVM> {
+    const rows = await this.m.overview();
+    const report = await this.m.check();
+    const results = new Map<string, LoopResult>(report.loops.map((r) => [r.loop, r]));
+    const settings = this.m.settings();
+    const newest = rows.reduce<(typeof rows)[number] | null>((a, r) => (a === null || r.head.time > a.head.time ? r : a), null);
+    return {
+      machine: settings.name,
+      storePath: this.m.path,
+      unit: settings.unit,
+      lastChange: newest && { loopId: newest.loop, revision: newest.head.number, author: newest.head.author, at: newest.head.time, note: newest.head.note },
+      rows: overviewRowsOf(rows, results),
+    };
+  }
+
+  async loop(loopId: string): Promise<LoopDetailVM> {
+    const d = await this.m.loopDetail(loopId);
+    const head = d.history[d.history.length - 1] ?? d.info.head;
+    const { bode, step } = loopCurves(this.m, loopId, d.state.compensator, curveVariantsOf(d.result));
+    const error = d.result.variants.find((v) => v.error !== undefined)?.error;
+    return {
+      id: d.info.ref, axis: d.info.axis, name: d.info.name, unit: this.m.settings().unit,
+      revision: d.result.revision, author: head.author, at: head.time, note: head.note,
+      status: d.result.status, ...(error !== undefined ? { error } : {}),
+      plants: Object.entries(d.state.plants).map(([variant, p]) => ({ variant, text: p.text })),
+      innerId: d.info.inner,
+      requirements: d.state.requirements,
+      variants: variantsOf(d.result),
+      checks: checksOf(d.result),
+      blocks: d.state.compensator.blocks,
+      bode, step,
+      history: historyOf(d),
+    };
+  }
+
+  async compare(loopId: string, revA: number, revB: number): Promise<CompareVM> {
+    const diff = await this.m.diff(loopId, revA, revB);
+    // Both revisions in today's cascade, as the diff analysed them; the crossover it reports is marked.
+    const curves = (n: number, side: 'from' | 'to') => {
+      const state = this.m.revision(loopId, n).state;
+      const variants: CurveVariant[] = [...new Set(diff.metrics.map((d) => d.variant))].map((variant) => {
+        const fc = diff.metrics.find((d) => d.variant === variant && d.metric === 'crossoverRadS')?.[side] ?? null;
+        return { variant, crossoversRadS: fc === null ? [] : [fc], phaseCrossoversRadS: [], stable: false, finalValue: 1 };
+      });
+      return loopCurves(this.m, loopId, state.compensator, variants, state).bode;
+    };
+    return {
+      loopId, unit: this.m.settings().unit,
+      a: revisionOf(diff.from, diff.statusFrom), b: revisionOf(diff.to, diff.statusTo),
+      statusA: diff.statusFrom, statusB: diff.statusTo,
+      changes: diff.changes, deltas: diff.metrics,
+      bodeA: curves(revA, 'from'), bodeB: curves(revB, 'to'),
+    };
+  }
+
+  async whatIf(loopId: string, draft: DraftVM): Promise<WhatIfVM> {
+    try {
+      const r = await this.m.whatIf(loopId, { compensator: draft.blocks, requirements: draft.requirements });
+      const blocks = await this.m.parseBlocks(draft.blocks);
+      const { bode } = loopCurves(this.m, loopId, { blocks }, curveVariantsOf(r.loop));
+      return { ok: true, status: r.loop.status, variants: variantsOf(r.loop), checks: checksOf(r.loop), bode };
+    } catch (e) {
+      if (e instanceof UserError) return { ok: false, error: e.message };
+      throw e;
+    }
+  }
+
+  async save(loopId: string, draft: DraftVM, baseRevision: number, note: string): Promise<SaveResultVM> {
+    try {
+      const rev = this.m.revision(loopId, baseRevision).state;
+      const unit = this.m.settings().unit;
+      const blocks = await this.m.parseBlocks(draft.blocks);
+      const reqs = this.m.parseRequirements(draft.requirements);
+      const compChanged = blocks.map((b) => formatBlock(b, unit)).join(' ') !== rev.compensator.blocks.map((b) => formatBlock(b, unit)).join(' ');
+      const before = new Set(rev.requirements.map((r) => formatRequirement(r, unit)));
+      const after = new Set(reqs.map((r) => formatRequirement(r, unit)));
+      const dropped = rev.requirements.filter((r) => !after.has(formatRequirement(r, unit))).map((r) => `${r.metric}${r.op}`);
+      const added = reqs.filter((r) => !before.has(formatRequirement(r, unit)));
+      let base = baseRevision;
+      const opts = () => ({ base, note, ...(this.author !== undefined ? { author: this.author } : {}) });
+      // One revision per kind of change, each based on the one before: the first carries the user's base,
+      // so a concurrent change by someone else is refused before anything is written.
+      if (compChanged) base = (await this.m.setCompensator(loopId, blocks, { ...opts(), ideal: rev.compensator.ideal === true })).revision.number;
+      for (const key of dropped.filter((k) => !added.some((r) => `${r.metric}${r.op}` === k))) {
+        base = (await this.m.dropRequirements(loopId, key, opts())).revision.number;
+      }
+      if (added.length > 0) base = (await this.m.setRequirements(loopId, added, opts())).revision.number;
+      if (base === baseRevision) return { ok: false, conflict: false, message: 'nothing changed: the draft equals the saved loop' };
+      return { ok: true, revision: base };
+    } catch (e) {
+      if (e instanceof ConflictError) return { ok: false, conflict: true, message: e.message };
+      if (e instanceof UserError) return { ok: false, conflict: false, message: e.message };
+      throw e;
+    }
+  }
+
+  tuneMethods(): readonly TuneMethodVM[] {
+    return [];
+  }
+
+  async propose(_loopId: string, method: string): Promise<ProposalVM> {
+    return { ok: false, error: `the design method '${method}' is not available in this build` };
+  }
+
+  async applyProposal(): Promise<SaveResultVM> {
+    return { ok: false, conflict: false, message: 'the design assistant is not available in this build' };
+  }
+
+  close(): void {
+    this.m.close();
+  }
+}
+
+/** Opens a store for the dashboard (refuses a missing or foreign file with the engine's own message). */
+export function openEngineSource(path: string, author?: string): EngineSource {
+  return new EngineSource(openMachine(path, author !== undefined ? { author } : {}), author);
+}
