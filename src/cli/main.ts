@@ -12,7 +12,21 @@ interface CommandEntry {
  * Add one line per command; keep the list in the order `help` should show it.
  */
 const COMMANDS: Record<string, CommandEntry> = {
+  demo: { summary: 'create (or reuse) the demo machine in ./demo.loopledger.db', load: () => import('./commands/demo.js') },
+  init: { summary: 'create a new machine store', load: () => import('./commands/init.js') },
+  axis: { summary: 'axis add NAME | axis list', load: () => import('./commands/axis.js') },
+  loop: { summary: 'loop add AXIS/LOOP --plant EXPR | loop list | loop show AXIS/LOOP', load: () => import('./commands/loop.js') },
+  plant: { summary: 'plant set AXIS/LOOP EXPR [--variant NAME] | plant drop AXIS/LOOP VARIANT', load: () => import('./commands/plant.js') },
+  spec: { summary: 'add, replace or drop requirements of a loop (pm>=45 gm>=6dB ...)', load: () => import('./commands/spec.js') },
+  comp: { summary: 'comp set AXIS/LOOP BLOCK...: a new compensator (gain:2 lead:30Hz/150Hz ...)', load: () => import('./commands/comp.js') },
+  check: { summary: 'check every requirement of every loop; exit 1 if any fails', load: () => import('./commands/check.js') },
+  log: { summary: 'the revisions of a loop: who changed what, when and why', load: () => import('./commands/log.js') },
+  diff: { summary: 'what changed between two revisions, and the metric deltas', load: () => import('./commands/diff.js') },
+  revert: { summary: 'a new revision equal to an old one', load: () => import('./commands/revert.js') },
+  dump: { summary: 'the whole machine with its history as stable JSON', load: () => import('./commands/dump.js') },
+  load: { summary: 'build a new store from a dump', load: () => import('./commands/load.js') },
   calc: { summary: 'analyse one loop from expressions, no store', load: () => import('./commands/calc.js') },
+  dash: { summary: 'the dashboard: every loop at a glance, live (also: no command)', load: () => import('./commands/dash.js') },
 };
 
 const USAGE_HEAD = 'usage: loopledger [--store PATH] [--no-color] COMMAND [ARGS]';
