@@ -11,7 +11,9 @@ await build({
   format: 'esm',
   platform: 'node',
   target: 'node20',
-  external: ['better-sqlite3'],
+  // ink imports react-devtools-core only when DEV=true (an optional dev tool, not installed):
+  // leave it to runtime, where ink explains how to install it if someone asks for it.
+  external: ['better-sqlite3', 'react-devtools-core'],
   // Some CommonJS dependencies call require(); give the ESM bundle one.
   banner: { js: "import { createRequire as __llCreateRequire } from 'node:module'; const require = __llCreateRequire(import.meta.url);" },
   logLevel: 'warning',
