@@ -3,20 +3,24 @@ import type { StepPlan } from './step-plan.js';
 import type { LoopSystem } from './step-system.js';
 
 /**
- * Unit-step simulation of a LoopSystem on a planned grid (step-plan.ts), exact for the
- * delay-free loop, and for a delay of whole steps up to the hold of the delayed input.
+ * Unit-step simulation of a LoopSystem on a planned grid (step-plan.ts): exact at the grid
+ * points for the delay-free loop; with a delay, exact up to a cubic interpolation of the
+ * delayed input across each step.
  *
- * Discretisation (Van Loan): the exponential of the augmented matrix
- *   h [[A, Br, Bd, 0], [0, 0, 0, 0], [0, 0, 0, 1/h], [0, 0, 0, 0]]
- * holds Phi = e^(Ah), Gr = int_0^h e^(As) ds Br, G1 = int_0^h e^(As) ds Bd and
- * G2 = int_0^h e^(A(h-s)) Bd s/h ds, so a delayed input d that is linear across a step
- * (first-order hold between the delay-line samples) is integrated exactly:
- *   x_{k+1} = Phi x_k + Gr + (G1 - G2) d_k^+ + G2 d_{k+1}^-.
- * The reference r = 1 is constant for t > 0, so the delay-free loop (Bd = 0) is exact at
- * every grid point. Signals may jump at grid points (at t = 0, and at multiples of the
- * delay when C has a feedthrough), so every grid point keeps a left (-) and a right (+)
- * value, and each step the one-sided slopes at both of its ends, for cubic Hermite
- * interpolation inside the step.
+ * Discretisation (Van Loan): in the scaled time v = t/h of one step, the exponential of
+ *   [[A h, Br h, Bd h, 0, 0, 0], [0 ...], [0, 0, 0, 1, 0, 0], [0, 0, 0, 0, 2, 0], [0, 0, 0, 0, 0, 3], [0 ...]]
+ * holds Phi = e^(Ah), Gr = int_0^h e^(As) ds Br and G_j = h int_0^1 e^(A h (1-v)) Bd v^j dv
+ * (j = 0..3: the integrator chain turns a unit start in slot j into the input v^j). A
+ * delayed input d(v) = c0 + c1 v + c2 v^2 + c3 v^3 is then integrated exactly:
+ *   x_{k+1} = Phi x_k + Gr + sum_j c_j G_j.
+ * The cubic is the Hermite piece of the past u through its values and slopes at t_k - T
+ * and t_(k+1) - T, which are grid points: the step never exceeds T and T is a whole number
+ * of base steps. u is smooth between multiples of T, all of which are grid points, so the
+ * piece is accurate to O(h^4). The reference r = 1 is constant for t > 0.
+ *
+ * Signals may jump at grid points (at t = 0, and at multiples of the delay when C has a
+ * feedthrough), so every grid point keeps a left (-) and a right (+) value, and each step
+ * the one-sided slopes at both of its ends, for cubic Hermite interpolation of y and u.
  */
 export interface StepTrace {
   /** Grid times t_0 = 0 < t_1 < ... (N + 1 points). */
@@ -49,58 +53,64 @@ function dot(a: Float64Array, b: Float64Array): number {
   return s;
 }
 
-/** The discretised step: Phi, Gr, G1 - G2 and G2 (see the file comment). */
+/** The discretised step: Phi, Gr and (with a delay) G_0..G_3 (see the file comment). */
 interface Discrete {
   phi: Float64Array;
   gr: Float64Array;
-  g1: Float64Array;
-  g2: Float64Array;
+  g: Float64Array[];
 }
 
 /** Exact discretisation for step h by the exponential of the augmented matrix. */
-function discretise(sys: LoopSystem, h: number): Discrete {
+function discretise(sys: LoopSystem, h: number, delayed: boolean): Discrete {
   const n = sys.n;
-  const q = n + 3;
+  const extra = delayed ? 5 : 1;
+  const q = n + extra;
   const big = new Float64Array(q * q);
   for (let i = 0; i < n; i++) {
     for (let j = 0; j < n; j++) big[i * q + j] = sys.a[i * n + j]! * h;
     big[i * q + n] = sys.br[i]! * h;
-    big[i * q + n + 1] = sys.bd[i]! * h;
+    if (delayed) big[i * q + n + 1] = sys.bd[i]! * h;
   }
-  big[(n + 1) * q + n + 2] = 1;
+  if (delayed) for (let j = 1; j <= 3; j++) big[(n + j) * q + n + j + 1] = j;
   const e = expm(big, q);
   const phi = new Float64Array(n * n);
-  const gr = new Float64Array(n), g1 = new Float64Array(n), g2 = new Float64Array(n);
+  const gr = new Float64Array(n);
+  const g = delayed ? [0, 1, 2, 3].map(() => new Float64Array(n)) : [];
   for (let i = 0; i < n; i++) {
     for (let j = 0; j < n; j++) phi[i * n + j] = e[i * q + j]!;
     gr[i] = e[i * q + n]!;
-    g1[i] = e[i * q + n + 1]!;
-    g2[i] = e[i * q + n + 2]!;
+    for (let j = 0; j < g.length; j++) g[j]![i] = e[i * q + n + 1 + j]!;
   }
-  return { phi, gr, g1, g2 };
+  return { phi, gr, g };
 }
+
+const BINOMIAL = [[1], [1, 1], [1, 2, 1], [1, 3, 3, 1]];
 
 /**
  * The same for step 2h from step h, by the semigroup property: Phi(2h) = Phi^2,
- * Gr(2h) = Phi Gr + Gr, G1(2h) = Phi G1 + G1, and for the ramp (weights s/2h over two
- * halves) G2(2h) = (Phi G2 + G1 + G2) / 2. This is the squaring phase of expm itself.
+ * Gr(2h) = Phi Gr + Gr, and for the input ((v'+ i)/2)^j over the two halves i = 0, 1,
+ * G_j(2h) = (Phi G_j + sum_i binom(j, i) G_i) / 2^j. This is the squaring phase of expm.
  */
 function doubleStep(d: Discrete, n: number): Discrete {
   const phi = matMul(d.phi, d.phi, n);
-  const gr = new Float64Array(n), g1 = new Float64Array(n), g2 = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    let sr = 0, s1 = 0, s2 = 0;
-    for (let j = 0; j < n; j++) {
-      const p = d.phi[i * n + j]!;
-      sr += p * d.gr[j]!;
-      s1 += p * d.g1[j]!;
-      s2 += p * d.g2[j]!;
+  const mulAdd = (v: Float64Array, w: Float64Array) => {
+    const r = new Float64Array(n);
+    for (let i = 0; i < n; i++) {
+      let s = w[i]!;
+      for (let j = 0; j < n; j++) s += d.phi[i * n + j]! * v[j]!;
+      r[i] = s;
     }
-    gr[i] = sr + d.gr[i]!;
-    g1[i] = s1 + d.g1[i]!;
-    g2[i] = (s2 + d.g1[i]! + d.g2[i]!) / 2;
-  }
-  return { phi, gr, g1, g2 };
+    return r;
+  };
+  const gr = mulAdd(d.gr, d.gr);
+  const g = d.g.map((gj, j) => {
+    const sum = new Float64Array(n);
+    for (let i = 0; i <= j; i++) for (let r = 0; r < n; r++) sum[r] += BINOMIAL[j]![i]! * d.g[i]![r]!;
+    const out = mulAdd(gj, sum);
+    for (let r = 0; r < n; r++) out[r] /= 2 ** j;
+    return out;
+  });
+  return { phi, gr, g };
 }
 
 /** Simulates the planned grid (levels of doubling steps, delay a whole number of base steps). */
@@ -124,10 +134,11 @@ export function simulateStep(sys: LoopSystem, plan: StepPlan): StepTrace {
   let xn = new Float64Array(n);
   const m = plan.delayTicks;
   const delayed = m > 0;
-  // Index of the past grid point t - T for the start of the current step (advances monotonically).
-  let back = 0;
-  // Grid point 0: everything is zero before the step; r jumps to 1 at 0+.
+  // Delay line: index of the past grid point t_(k+1) - T (advances monotonically), -1 before it exists.
+  let back = -1;
+  // The delayed input d and its slope just after t_k (zero until t = T).
   let dPlus = 0;
+  let dDotPlus = 0;
   yPlus[0] = dyr;
   uPlus[0] = dur;
   let disc: Discrete | null = null;
@@ -138,30 +149,45 @@ export function simulateStep(sys: LoopSystem, plan: StepPlan): StepTrace {
       if (disc) disc = doubleStep(disc, n);
       stride *= 2;
     }
-    disc ??= discretise(sys, plan.h0S * stride);
-    const { phi, gr, g1, g2 } = disc;
+    disc ??= discretise(sys, plan.h0S * stride, delayed);
+    const { phi, gr, g } = disc;
+    const [g0, g1, g2, g3] = g;
     const h = plan.h0S * stride;
     for (let step = 0; step < level.steps; step++, k++) {
       const k1 = k + 1;
       const tick1 = ticks[k]! + stride;
-      let dNextMinus = 0;
+      let dMinus = 0, dDotMinus = 0;
       if (delayed && tick1 - m >= 0) {
+        back++;
         while (ticks[back]! < tick1 - m) back++;
-        dNextMinus = uMinus[back]!;
+        dMinus = uMinus[back]!;
+        dDotMinus = back > 0 ? duEnd[back - 1]! : 0;
       }
-      const slope = (dNextMinus - dPlus) / h;
       let cyAx = 0, cuAx = 0;
       for (let i = 0; i < n; i++) {
         cyAx += cyA[i]! * x[i]!;
         cuAx += cuA[i]! * x[i]!;
       }
-      dyStart[k] = cyAx + cyBr + cyBd * dPlus + dyd * slope;
-      duStart[k] = cuAx + cuBr + cuBd * dPlus + dud * slope;
-      for (let i = 0; i < n; i++) {
-        let s = gr[i]! + (g1[i]! - g2[i]!) * dPlus + g2[i]! * dNextMinus;
-        const io = i * n;
-        for (let j = 0; j < n; j++) s += phi[io + j]! * x[j]!;
-        xn[i] = s;
+      dyStart[k] = cyAx + cyBr + cyBd * dPlus + dyd * dDotPlus;
+      duStart[k] = cuAx + cuBr + cuBd * dPlus + dud * dDotPlus;
+      if (delayed) {
+        // Hermite cubic of the delayed input over this step, in v = (t - t_k)/h.
+        const s0 = dDotPlus * h, s1 = dDotMinus * h;
+        const c2 = 3 * (dMinus - dPlus) - 2 * s0 - s1;
+        const c3 = 2 * (dPlus - dMinus) + s0 + s1;
+        for (let i = 0; i < n; i++) {
+          let s = gr[i]! + dPlus * g0![i]! + s0 * g1![i]! + c2 * g2![i]! + c3 * g3![i]!;
+          const io = i * n;
+          for (let j = 0; j < n; j++) s += phi[io + j]! * x[j]!;
+          xn[i] = s;
+        }
+      } else {
+        for (let i = 0; i < n; i++) {
+          let s = gr[i]!;
+          const io = i * n;
+          for (let j = 0; j < n; j++) s += phi[io + j]! * x[j]!;
+          xn[i] = s;
+        }
       }
       const t = x; x = xn; xn = t;
       let cyx = 0, cux = 0;
@@ -173,14 +199,17 @@ export function simulateStep(sys: LoopSystem, plan: StepPlan): StepTrace {
         cyAx += cyA[i]! * xi;
         cuAx += cuA[i]! * xi;
       }
-      dyEnd[k] = cyAx + cyBr + cyBd * dNextMinus + dyd * slope;
-      duEnd[k] = cuAx + cuBr + cuBd * dNextMinus + dud * slope;
-      dPlus = delayed && tick1 - m >= 0 ? uPlus[back]! : 0;
+      dyEnd[k] = cyAx + cyBr + cyBd * dMinus + dyd * dDotMinus;
+      duEnd[k] = cuAx + cuBr + cuBd * dMinus + dud * dDotMinus;
+      if (delayed && back >= 0) {
+        dPlus = uPlus[back]!;
+        dDotPlus = duStart[back]!;
+      }
       ticks[k1] = tick1;
       tS[k1] = tick1 * plan.h0S;
-      yMinus[k1] = cyx + dyr + dyd * dNextMinus;
+      yMinus[k1] = cyx + dyr + dyd * dMinus;
       yPlus[k1] = cyx + dyr + dyd * dPlus;
-      uMinus[k1] = cux + dur + dud * dNextMinus;
+      uMinus[k1] = cux + dur + dud * dMinus;
       uPlus[k1] = cux + dur + dud * dPlus;
     }
   }
