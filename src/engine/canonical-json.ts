@@ -1,9 +1,12 @@
 import { createHash } from 'node:crypto';
 
 /**
- * Canonical JSON: object keys sorted, infinities written as "inf"/"-inf", no
- * undefined members. The same value always gives the same bytes, which makes
- * hashes stable and dumps diff-friendly.
+ * Canonical JSON: object keys sorted, no undefined members. The same value
+ * always gives the same bytes, which makes hashes stable and dumps diff-friendly.
+ * Infinities: the stored (compact) form writes them as the JSON numbers 1e999 and
+ * -1e999, which JSON.parse reads back as +-Infinity with no reviver (fast for
+ * check); the readable form (dumps) writes "inf"/"-inf" like every other JSON
+ * loopledger prints.
  */
 
 type Json = null | boolean | number | string | Json[] | { [k: string]: Json };
@@ -34,9 +37,34 @@ function normalise(v: unknown, where: string): Json {
   }
 }
 
-/** Compact canonical JSON (for storage and hashing). */
+/** Compact canonical JSON (for storage and hashing); read it back with parseStored. */
 export function canonicalJson(v: unknown): string {
-  return JSON.stringify(normalise(v, '$'));
+  if (v === null) return 'null';
+  switch (typeof v) {
+    case 'number':
+      if (v === Infinity) return '1e999';
+      if (v === -Infinity) return '-1e999';
+      return Number.isNaN(v) ? 'null' : JSON.stringify(Object.is(v, -0) ? 0 : v);
+    case 'string':
+    case 'boolean':
+      return JSON.stringify(v);
+    case 'object': {
+      if (Array.isArray(v)) return '[' + v.map((x) => (x === undefined ? 'null' : canonicalJson(x))).join(',') + ']';
+      const parts: string[] = [];
+      for (const k of Object.keys(v as object).sort()) {
+        const x = (v as Record<string, unknown>)[k];
+        if (x !== undefined) parts.push(JSON.stringify(k) + ':' + canonicalJson(x));
+      }
+      return '{' + parts.join(',') + '}';
+    }
+    default:
+      throw new Error(`canonical JSON: cannot encode ${typeof v}`);
+  }
+}
+
+/** Reads the stored (compact) form. */
+export function parseStored<T>(text: string): T {
+  return JSON.parse(text) as T;
 }
 
 /**
@@ -70,8 +98,8 @@ function pretty(v: Json, indent: string): string {
 }
 
 /**
- * Parses canonical JSON, turning "inf"/"-inf" back into numbers except under
- * keys that hold free text (`text`, `note`, `summary`, names).
+ * Parses the readable form (a dump), turning "inf"/"-inf" back into numbers
+ * except under keys that hold free text (`text`, `note`, `summary`, names).
  */
 export function parseCanonical<T>(text: string): T {
   return JSON.parse(text, (key, value) => {

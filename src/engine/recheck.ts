@@ -1,6 +1,6 @@
 import type { StoreSql } from '../store/queries.js';
 import type { ResultRow } from '../store/rows.js';
-import { canonicalJson, parseCanonical } from './canonical-json.js';
+import { canonicalJson, parseStored } from './canonical-json.js';
 import type { LoopGraph } from './graph.js';
 import { decodeState } from './state.js';
 import type { LoopResult, LoopState } from './types.js';
@@ -42,7 +42,7 @@ export interface RecheckEnv {
 
 /** Decodes a stored result row. */
 export function decodeResult(row: ResultRow): LoopResult {
-  return parseCanonical<LoopResult>(row.result_json);
+  return parseStored<LoopResult>(row.result_json);
 }
 
 /** The revision and input hash a loop's result is keyed by in this recheck (hash null: unsaved). */

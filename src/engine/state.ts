@@ -1,7 +1,7 @@
 import type { Compensator } from '../model/blocks.js';
 import { UserError } from '../model/errors.js';
 import type { Requirement } from '../model/requirements.js';
-import { canonicalJson, hashText, parseCanonical } from './canonical-json.js';
+import { canonicalJson, hashText, parseStored } from './canonical-json.js';
 import type { LoopState, PlantVariant } from './types.js';
 
 /** The variant a new loop's first plant gets unless named. */
@@ -88,5 +88,5 @@ export function encodeState(s: LoopState): EncodedState {
 
 /** Reads a stored state. */
 export function decodeState(json: string): LoopState {
-  return parseCanonical<LoopState>(json);
+  return parseStored<LoopState>(json);
 }
