@@ -1,5 +1,5 @@
 import type { Complex, Poly, TransferFunction } from '../model/tf.js';
-import { polyTrim } from './poly.js';
+import { polyEvalJw, polyScaleVariable, polyTrim } from './poly.js';
 import { polyRoots } from './roots.js';
 
 /**
@@ -14,6 +14,14 @@ export interface Factored {
   readonly zeros: readonly Complex[];
   readonly poles: readonly Complex[];
   readonly delayS: number;
+  /**
+   * Optional exact polynomials for evaluation: numerator and denominator in sigma = s/w0,
+   * each normalised, with ln of the factor they were divided by. Roots of clustered
+   * (repeated) factors carry errors of order eps^(1/multiplicity); values from the
+   * coefficients do not, so when present they give |G| and the phase, and the factors
+   * only pick the phase branch (continuity) and the derivatives.
+   */
+  readonly poly?: { readonly num: Poly; readonly den: Poly; readonly w0: number; readonly logScale: number };
 }
 
 /** Leading (highest-power) coefficient. */
@@ -22,17 +30,31 @@ function lead(p: Poly): number {
   return t[t.length - 1]!;
 }
 
+/** Polynomial scaled to sigma = s/w0 and divided by its largest coefficient: [coefficients, ln(divisor)]. */
+function scaledPoly(p: Poly, w0: number): [number[], number] {
+  const q = polyScaleVariable(polyTrim(p), w0);
+  const m = Math.max(...q.map(Math.abs));
+  return [q.map((c) => c / m), Math.log(m)];
+}
+
 /** Factors tf; pass known roots to skip root finding. Roots exactly on the axis keep a +0 real part. */
 export function factorTf(tf: TransferFunction, zeros?: readonly Complex[], poles?: readonly Complex[]): Factored {
   const n = polyTrim(tf.num);
   const zeroNum = n.length === 1 && n[0] === 0;
   const clean = (rs: readonly Complex[]) => rs.map((r) => ({ re: r.re + 0, im: r.im + 0 }));
-  return {
-    gain: zeroNum ? 0 : lead(tf.num) / lead(tf.den),
-    zeros: zeroNum ? [] : clean(zeros ?? polyRoots(tf.num)),
-    poles: clean(poles ?? polyRoots(tf.den)),
-    delayS: tf.delayS,
-  };
+  const z = zeroNum ? [] : clean(zeros ?? polyRoots(tf.num));
+  const p = clean(poles ?? polyRoots(tf.den));
+  const mags = [...z, ...p].map((r) => Math.hypot(r.re, r.im)).filter((m) => m > 0 && Number.isFinite(m));
+  const w0 = mags.length === 0 ? 1 : 2 ** Math.round(Math.log2(Math.sqrt(Math.min(...mags) * Math.max(...mags))));
+  const [pn, ln] = scaledPoly(tf.num, w0);
+  const [pd, ld] = scaledPoly(tf.den, w0);
+  const poly = zeroNum || !Number.isFinite(ln - ld) ? undefined : { num: pn, den: pd, w0, logScale: ln - ld };
+  return { gain: zeroNum ? 0 : lead(tf.num) / lead(tf.den), zeros: z, poles: p, delayS: tf.delayS, ...(poly ? { poly } : {}) };
+}
+
+/** Angle wrapped into (-pi, pi]. */
+function wrapAngle(x: number): number {
+  return x - 2 * Math.PI * Math.ceil((x - Math.PI) / (2 * Math.PI));
 }
 
 /**
@@ -61,6 +83,18 @@ export function factoredAt(f: Factored, w: number, out: Float64Array): Float64Ar
     ph -= Math.atan2(y, x);
     dlm -= y / r2;
     dph -= x / r2;
+  }
+  if (f.poly) {
+    // Value from the coefficients; the factor sum only chooses the branch of the phase.
+    const x = w / f.poly.w0;
+    const [nr, ni] = polyEvalJw(f.poly.num, x);
+    const [dr, di] = polyEvalJw(f.poly.den, x);
+    const mn = Math.hypot(nr, ni);
+    const md = Math.hypot(dr, di);
+    if (mn > 0 && md > 0 && Number.isFinite(mn) && Number.isFinite(md)) {
+      lm = f.poly.logScale + Math.log(mn / md);
+      ph += wrapAngle(Math.atan2(ni * dr - nr * di, nr * dr + ni * di) - ph);
+    }
   }
   out[0] = lm;
   out[1] = ph - w * f.delayS;

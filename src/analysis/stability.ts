@@ -95,7 +95,7 @@ export function rhpZeroCount(loop: TransferFunction, f: Factored, gainCrossovers
   const lMag = Math.exp(v[0]!);
   const argOnePlusL = Math.atan2(lMag * Math.sin(v[1]!), 1 + lMag * Math.cos(v[1]!));
   const z = n / 2 - (total + tailD - argOnePlusL) / Math.PI;
-  const count = Math.round(z);
+  const count = Math.round(z) + 0; // never -0
   return { count, reliable: Math.abs(z - count) < 0.2 && budget > 0 && lMag < 1 };
 }
 
