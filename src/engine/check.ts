@@ -1,6 +1,6 @@
 import type { LoopStatus } from '../model/requirements.js';
 import { findLoop, machineGraph, type Core } from './core.js';
-import { loadEvaluator, recheck, staleIds, type RecheckEnv } from './recheck.js';
+import { loadEvaluator, recheck, storedResult, type RecheckEnv } from './recheck.js';
 import type { CheckReport, LoopResult } from './types.js';
 
 const SEVERITY: readonly LoopStatus[] = ['pass', 'fail', 'unstable', 'error'];
@@ -21,14 +21,27 @@ function isReadOnlyError(e: unknown): boolean {
  * to is still checked, just without saving results.
  */
 export async function checkLoops(core: Core, refs: readonly string[] | null, force = false): Promise<CheckReport> {
-  const graph = machineGraph(core);
-  const ids = refs === null || refs.length === 0 ? [...graph.loops.keys()] : [...new Set(refs.map((r) => findLoop(core, r).id))];
   const counter = { analysed: 0 };
-  const env: RecheckEnv = { sql: core.sql, graph, ev: null, computedAt: core.now(), store: true, counter, ...(force ? { recompute: new Set(graph.loops.keys()) } : {}) };
-  let results: Map<number, LoopResult>;
-  if (!force && staleIds(env, ids).length === 0) {
-    results = recheck(env, ids);
-  } else {
+  // One read transaction: a consistent snapshot, and one lock instead of one per statement.
+  const first = core.sql.db.transaction(() => {
+    const graph = machineGraph(core);
+    const ids = refs === null || refs.length === 0 ? [...graph.loops.keys()] : [...new Set(refs.map((r) => findLoop(core, r).id))];
+    const env: RecheckEnv = { sql: core.sql, graph, ev: null, computedAt: core.now(), store: true, counter, ...(force ? { recompute: new Set(graph.loops.keys()) } : {}) };
+    // Fast path: every result (and those of the loops inside) fresh in the store; one lookup each.
+    let fresh: Map<number, LoopResult> | null = force ? null : new Map();
+    for (const id of force ? [] : graph.withInnerChains(ids)) {
+      const r = storedResult(env, id);
+      if (r === null) {
+        fresh = null;
+        break;
+      }
+      fresh!.set(id, r);
+    }
+    return { ids, env, fresh };
+  }).deferred();
+  const { ids, env } = first;
+  let results = first.fresh;
+  if (results === null) {
     const ev = await loadEvaluator();
     try {
       // Re-read inside the write transaction: another process may have changed loops meanwhile.

@@ -2,24 +2,28 @@ import { UserError } from '../model/errors.js';
 import type { StoreSql } from '../store/queries.js';
 import { parseCanonical } from './canonical-json.js';
 import { checkDump } from './dump-check.js';
-import type { LoopDump } from './dump.js';
+import type { LoopDump, MachineDump } from './dump.js';
 import { LoopGraph } from './graph.js';
 import { loadEvaluator, recheck } from './recheck.js';
 import { encodeState } from './state.js';
 
-/**
- * Loads a dump into a new or empty store, in one transaction: the machine
- * settings, every axis and loop, every revision as it was (authors, times,
- * notes kept), then a check of every loop so the store is ready to use.
- */
-export async function loadInto(sql: StoreSql, text: string, where: string, now: () => Date): Promise<void> {
+/** Parses and checks dump text (before any store is opened, so a bad file creates nothing). */
+export function readDump(text: string): MachineDump {
   let parsed: unknown;
   try {
     parsed = parseCanonical(text);
   } catch (e) {
     throw new UserError(`dump is not valid JSON (${e instanceof Error ? e.message : String(e)}); nothing was loaded`);
   }
-  const dump = checkDump(parsed);
+  return checkDump(parsed);
+}
+
+/**
+ * Loads a checked dump into a new or empty store, in one transaction: the
+ * machine settings, every axis and loop, every revision as it was (authors,
+ * times, notes kept), then a check of every loop so the store is ready to use.
+ */
+export async function loadInto(sql: StoreSql, dump: MachineDump, where: string, now: () => Date): Promise<void> {
   const ev = await loadEvaluator();
   sql.writeTx(() => {
     if (!sql.isEmpty()) throw new UserError(`${where} already holds axes; load into a new or empty store; nothing was loaded`);

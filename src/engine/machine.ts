@@ -11,7 +11,7 @@ import { diffRevisions } from './diff.js';
 import { dumpMachine } from './dump.js';
 import type { Machine, OpenOptions } from './index.js';
 import { makeCompensator, parseBlocks, parsePlant, parseRequirements } from './inputs.js';
-import { loadInto } from './load.js';
+import { loadInto, readDump } from './load.js';
 import { applyChange, createLoop } from './mutate.js';
 import { checkName } from './names.js';
 import { formatBlock } from './block-syntax.js';
@@ -221,10 +221,11 @@ export function initMachine(path: string, settings: { name: string; unit: FreqUn
 
 /** Loads a dump into a new or empty store; everything or nothing is written. */
 export async function loadMachine(path: string, dumpText: string, opts: OpenOptions = {}): Promise<Machine> {
+  const dump = readDump(dumpText);
   const store = openStore(path, { create: true });
   const m = new MachineImpl(store, opts);
   try {
-    await loadInto(new StoreSql(store.db), dumpText, path, opts.now ?? (() => new Date()));
+    await loadInto(new StoreSql(store.db), dump, path, opts.now ?? (() => new Date()));
   } catch (e) {
     m.close();
     throw e;

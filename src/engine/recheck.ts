@@ -61,11 +61,6 @@ export function storedResult(env: RecheckEnv, id: number): LoopResult | null {
   return row ? decodeResult(row) : null;
 }
 
-/** Ids (among `ids` and the loops inside them) with no fresh stored result. */
-export function staleIds(env: RecheckEnv, ids: Iterable<number>): number[] {
-  return env.graph.withInnerChains(ids).filter((id) => storedResult(env, id) === null);
-}
-
 /**
  * Fresh results of `ids`: stored ones where their input hash matches, new ones
  * (analysed, and stored when env.store) otherwise. Inner loops are handled

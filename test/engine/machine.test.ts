@@ -1,3 +1,4 @@
+import fs from 'node:fs';
 import path from 'node:path';
 import Database from 'better-sqlite3';
 import { describe, expect, it } from 'vitest';
@@ -184,6 +185,8 @@ describe('dump and load', () => {
     expect(copy.dump()).toBe(text);
     // A damaged dump is refused with where the problem is.
     const bad = text.replace('"number": 2,', '"number": 7,');
-    expect((await rejection(loadMachine(path.join(tempDir(), 'x.db'), bad))).message).toMatch(/^dump: .*revision 2\.number: expected 2/);
+    const nowhere = path.join(tempDir(), 'x.db');
+    expect((await rejection(loadMachine(nowhere, bad))).message).toMatch(/^dump: .*revision 2\.number: expected 2/);
+    expect(fs.existsSync(nowhere)).toBe(false);
   });
 });
