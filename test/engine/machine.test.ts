@@ -113,6 +113,16 @@ describe('check', () => {
     expect(res.summary).toMatch(/^fail: phase margin .*deg, needs >= .*deg \(loaded\)$/);
     const report = await m.check();
     expect(report).toMatchObject({ status: 'fail', counts: { pass: 0, fail: 1, unstable: 0, error: 0 }, reanalysed: 0 });
+
+    // The overview shows the worst variant's margin; the detail has every variant's requirement results.
+    const [row] = await m.overview();
+    expect(row).toMatchObject({ loop: 'X/vel', status: 'fail', variants: ['nominal', 'loaded'] });
+    expect(row!.headline.phaseMarginDeg).toBeCloseTo(secondOrder(4).pmDeg, 6);
+    expect(row!.headline.crossoverRadS).toBeCloseTo(k1.wcRadS, 6);
+    const detail = await m.loopDetail('X/vel');
+    expect(detail.result.variants.map((v) => v.requirements.map((q) => q.pass))).toEqual([[true, true], [false, true]]);
+    expect(detail.history.length).toBe(3);
+    expect(Object.keys(detail.state.plants).sort()).toEqual(['loaded', 'nominal']);
   });
 
   it('says unstable when a variant\'s closed loop is unstable, and error when it cannot be analysed', async () => {
