@@ -3,7 +3,7 @@ import { formatNumber } from '../model/units.js';
 import type { Factored } from '../analysis/factors.js';
 import { gainFromTargets } from './gain-step.js';
 import { gridBetween, refineParameter, worstPmOver } from './refine.js';
-import { magnitudeCrossingsRadS, phaseCrossingsRadS, shapeMagnitude, shapePhaseDeg, shapeScaled } from './shape.js';
+import { magnitudeCrossingsRadS, phaseCrossingsRadS, scaledShape, shapeMagnitude, shapePhaseDeg } from './shape.js';
 import type { ErrorConstantTarget } from './targets.js';
 import { failedOutcome, type Candidate, type DesignOutcome, type DesignVariant } from './types.js';
 import { Worksheet } from './worksheet.js';
@@ -45,7 +45,7 @@ export function designLag(variants: readonly DesignVariant[], designIndex: numbe
   const g = gainFromTargets(v, s.targets, s.fallbackK, ws);
   if (!g.ok) return failedOutcome(ws.steps, g.reason);
   const k = g.k;
-  const kf = shapeScaled(v.shape, k);
+  const kf = scaledShape(v, k);
   const gainOnly: Block[] = [{ kind: 'gain', k }];
   const pmGain = worstPmOver(variants, gainOnly);
   ws.add('phase margin with the gain alone (worst variant)', pmGain, 'deg');
@@ -96,7 +96,7 @@ export function designLag(variants: readonly DesignVariant[], designIndex: numbe
   if (!r.reached) {
     return { blocks, hand, refined, worksheet: ws.steps, feasible: false, message: `a phase margin of ${formatNumber(s.pmDeg)} deg cannot be reached with a lag at this gain; the best is ${formatNumber(r.pmDeg, 3)} deg: try leadlag` };
   }
-  const crossings = magnitudeCrossingsRadS(shapeScaled(kf, 1), 1);
+  const crossings = magnitudeCrossingsRadS(kf, 1);
   const note = crossings.length > 0 ? `; crossover moved from ${formatNumber(crossings[crossings.length - 1]!)} to ${formatNumber(r.x)} rad/s` : '';
   return { blocks, hand, refined, worksheet: ws.steps, feasible: true, message: `lag refined to the target phase margin${note}` };
 }

@@ -3,7 +3,7 @@ import { formatNumber } from '../model/units.js';
 import { gainFromTargets } from './gain-step.js';
 import { leadAlphaForPhase, leadStages } from './lead-math.js';
 import { gridBetween, refineParameter, worstPmOver, type RefineResult } from './refine.js';
-import { magnitudeCrossingsRadS, shapePhaseDeg, shapeScaled } from './shape.js';
+import { magnitudeCrossingsRadS, scaledShape, shapePhaseDeg } from './shape.js';
 import type { ErrorConstantTarget } from './targets.js';
 import { failedOutcome, type Candidate, type DesignOutcome, type DesignVariant } from './types.js';
 import { Worksheet } from './worksheet.js';
@@ -56,7 +56,7 @@ export function designLeadBode(variants: readonly DesignVariant[], designIndex: 
   const g = gainFromTargets(v, s.targets, s.fallbackK, ws);
   if (!g.ok) return failedOutcome(ws.steps, g.reason);
   const k = g.k;
-  const kf = shapeScaled(v.shape, k);
+  const kf = scaledShape(v, k);
   const cross = magnitudeCrossingsRadS(kf, 1);
   if (cross.length === 0) return failedOutcome(ws.steps, `|K·P| never crosses 1 at K = ${formatNumber(k)}: there is no crossover to add phase at`);
   const wc0 = cross[cross.length - 1]!;

@@ -4,7 +4,7 @@ import { gainFromTargets } from './gain-step.js';
 import { lagFor } from './lag.js';
 import { leadsAt } from './lead-fc.js';
 import { gridBetween, refineParameter, worstPmOver } from './refine.js';
-import { magnitudeCrossingsRadS, phaseCrossingsRadS, shapePhaseDeg, shapeScaled, shapeSeries, blockShape } from './shape.js';
+import { magnitudeCrossingsRadS, phaseCrossingsRadS, scaledShape, shapePhaseDeg, withBlocks } from './shape.js';
 import type { ErrorConstantTarget } from './targets.js';
 import { failedOutcome, type Candidate, type DesignOutcome, type DesignVariant } from './types.js';
 import { Worksheet } from './worksheet.js';
@@ -40,7 +40,7 @@ export function designLeadLag(variants: readonly DesignVariant[], designIndex: n
   const g = gainFromTargets(v, s.targets, s.fallbackK, ws);
   if (!g.ok) return failedOutcome(ws.steps, g.reason);
   const k = g.k;
-  const kf = shapeScaled(v.shape, k);
+  const kf = scaledShape(v, k);
   let wc = s.fcRadS;
   if (wc === null) {
     wc = phaseCrossingsRadS(kf, -180)[0] ?? null;
@@ -68,7 +68,7 @@ export function designLeadLag(variants: readonly DesignVariant[], designIndex: n
     // l.gain > 1: the loop is short of gain at w, so raise it (the error constant only grows);
     // l.gain < 1: keep K and let a lag take away 1/l.gain at w.
     if (l.gain >= 1) return { blocks: [{ kind: 'gain', k: k * l.gain }, ...l.leads], alpha: l.alpha, beta: null, gain: k * l.gain };
-    const withLeads = shapeSeries([kf, ...l.leads.map(blockShape)]);
+    const withLeads = withBlocks(v, [{ kind: 'gain', k }, ...l.leads]).shape;
     const lag = lagFor(withLeads, w, s.zeroRatio);
     const blocks: Block[] = [{ kind: 'gain', k }, ...l.leads];
     if (lag !== null) blocks.push(lag.block);

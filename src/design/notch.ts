@@ -1,7 +1,7 @@
 import type { Block } from '../model/blocks.js';
 import { formatNumber } from '../model/units.js';
 import { gridBetween, refineParameter, worstPmOver } from './refine.js';
-import { magnitudeCrossingsRadS, shapeMagnitude, shapeWithBlocks } from './shape.js';
+import { magnitudeCrossingsRadS, shapeMagnitude, withBlocks } from './shape.js';
 import type { DesignOutcome, DesignVariant } from './types.js';
 import { Worksheet } from './worksheet.js';
 
@@ -135,7 +135,7 @@ function blocks0Centre(b: Block): number {
 function gainMarginNote(variants: readonly DesignVariant[], blocks: readonly Block[], zetaMax: number): string {
   let worst = 0;
   for (const v of variants) {
-    const after = shapeWithBlocks(v.shape, blocks);
+    const after = withBlocks(v, blocks).shape;
     for (const r of findResonances([v], zetaMax)) worst = Math.max(worst, shapeMagnitude(after, r.wnRadS));
   }
   return worst > 0 ? `; |L| at the modes is now at most ${formatNumber(20 * Math.log10(worst), 3)} dB` : '';

@@ -2,9 +2,7 @@ import type { Block } from '../model/blocks.js';
 import { gainCrossoversRadS } from '../analysis/crossovers.js';
 import { phaseMarginsDeg } from '../analysis/margins.js';
 import { brentRoot } from '../analysis/scalar.js';
-import { tfSeries } from '../analysis/tf.js';
-import { compensatorTf } from './blocks-tf.js';
-import { blockShape, shapeSeries } from './shape.js';
+import { withBlocks } from './shape.js';
 import type { DesignVariant } from './types.js';
 
 /** How close the refined phase margin must come to its target (deg). */
@@ -23,12 +21,10 @@ export const AIM_ABOVE_DEG = 0.02;
  * Crossovers are found as the analysis core finds them.
  */
 export function worstPmOver(variants: readonly DesignVariant[], blocks: readonly Block[]): number {
-  const comp = compensatorTf({ blocks });
-  const compShapes = blocks.map(blockShape);
   let worst = Infinity;
   for (const v of variants) {
-    const f = shapeSeries([v.shape, ...compShapes]);
-    const pms = phaseMarginsDeg(f, gainCrossoversRadS(tfSeries(comp, v.tf), f, null));
+    const l = withBlocks(v, blocks);
+    const pms = phaseMarginsDeg(l.shape, gainCrossoversRadS(l.tf, l.shape, null));
     for (const pm of pms) worst = Math.min(worst, pm);
   }
   return worst;

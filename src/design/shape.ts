@@ -1,52 +1,49 @@
 import type { Block } from '../model/blocks.js';
-import type { TransferFunction } from '../model/tf.js';
+import type { Complex, TransferFunction } from '../model/tf.js';
 import { factorTf, factoredAt, type Factored } from '../analysis/factors.js';
 import { frequencyRangeRadS, loopGridRadS } from '../analysis/freq.js';
 import { brentRoot } from '../analysis/scalar.js';
-import { blockTf } from './blocks-tf.js';
+import { tfSeries } from '../analysis/tf.js';
+import { blockTf, compensatorTf } from './blocks-tf.js';
 
 /**
- * Loop shapes for design: a loop held in factored form (gain, zeros, poles, delay),
- * so that trying one more candidate compensator only appends the candidate's few
- * roots instead of finding the roots of the whole loop again. Phase is continuous
- * (sum of factor angles), which is what the Bode procedures read off.
+ * Loop shapes for design: a loop held in factored form (gain, zeros, poles, delay)
+ * beside its polynomials, so that trying one more candidate compensator only adds
+ * the candidate's few roots instead of finding the roots of the whole loop again.
+ * Phase is continuous (sum of factor angles), which is what the Bode procedures read off.
  */
 
 const RAD = 180 / Math.PI;
 
-/** The series connection of factored forms: gains multiply, roots and delays add up. */
-export function shapeSeries(parts: readonly Factored[]): Factored {
-  let gain = 1;
-  let delayS = 0;
-  const zeros = [];
-  const poles = [];
-  for (const p of parts) {
-    gain *= p.gain;
-    delayS += p.delayS;
-    zeros.push(...p.zeros);
-    poles.push(...p.poles);
-  }
-  return { gain, zeros, poles, delayS };
+/** A loop (or plant) in both forms: polynomials for exact values, factors for the continuous phase. */
+export interface LoopForms {
+  readonly tf: TransferFunction;
+  readonly shape: Factored;
 }
 
-/** One compensator block in factored form. */
-export function blockShape(b: Block): Factored {
+/** Roots of a block, found once per block. */
+function blockRoots(b: Block): Factored {
   return factorTf(blockTf(b));
 }
 
-/** plant (already factored) followed by blocks in series. */
-export function shapeWithBlocks(plant: Factored, blocks: readonly Block[]): Factored {
-  return shapeSeries([plant, ...blocks.map(blockShape)]);
+/** Factored form of a transfer function whose roots are already known (or found here when not given). */
+export function shapeOf(tf: TransferFunction, zeros?: readonly Complex[], poles?: readonly Complex[]): Factored {
+  return factorTf(tf, zeros, poles);
 }
 
-/** Factored form of a transfer function (roots found once). */
-export function shapeOf(tf: TransferFunction): Factored {
-  return factorTf(tf);
+/** The loop in series with blocks: its polynomials multiplied, its known roots reused. */
+export function withBlocks(l: LoopForms, blocks: readonly Block[]): LoopForms {
+  if (blocks.length === 0) return l;
+  const tf = tfSeries(compensatorTf({ blocks }), l.tf);
+  const parts = blocks.map(blockRoots);
+  const zeros = [...l.shape.zeros, ...parts.flatMap((p) => p.zeros)];
+  const poles = [...l.shape.poles, ...parts.flatMap((p) => p.poles)];
+  return { tf, shape: factorTf(tf, zeros, poles) };
 }
 
-/** Multiplies a shape by a constant gain. */
-export function shapeScaled(f: Factored, k: number): Factored {
-  return { ...f, gain: f.gain * k };
+/** The shape of k times the loop. */
+export function scaledShape(l: LoopForms, k: number): Factored {
+  return withBlocks(l, [{ kind: 'gain', k }]).shape;
 }
 
 /** |G(jw)| */
