@@ -52,9 +52,13 @@ function moveIn<T>(items: readonly T[], current: T | null, delta: number): T | n
 }
 
 /** Applies a move (j/k/pages/ends) to whatever the current screen moves. */
-function move(s: DashState, delta: number, c: ActContext): DashState {
-  if (s.help) return { ...s, helpScroll: Math.max(0, s.helpScroll + delta) };
-  switch (currentScreen(s)) {
+function move(s: DashState, delta: number, c: ActContext, byPage = false): DashState {
+  const scrolled = (at: number) => clamp(at + delta, 0, Math.max(0, c.contentRows - c.pageRows));
+  if (s.help) return { ...s, helpScroll: scrolled(s.helpScroll) };
+  const screen = currentScreen(s);
+  // On the tune screen j/k pick a method and the pages scroll the worksheet.
+  if (screen === 'tune' && byPage) return { ...s, scroll: scrolled(s.scroll) };
+  switch (screen) {
     case 'overview': return { ...s, selectedId: moveIn(c.overviewIds, s.selectedId, delta) };
     case 'history': return { ...s, historyRevision: moveIn(c.historyRevisions, s.historyRevision, delta) };
     case 'tune': return { ...s, tuneMethod: moveIn(c.tuneMethods, s.tuneMethod, delta), proposal: null, scroll: 0 };
@@ -63,7 +67,7 @@ function move(s: DashState, delta: number, c: ActContext): DashState {
       const n = (e.pane === 'blocks' ? e.blocks : e.requirements).length;
       return { ...s, edit: { ...e, cursor: clamp(e.cursor + delta, 0, Math.max(0, n - 1)) } };
     }
-    default: return { ...s, scroll: clamp(s.scroll + delta, 0, Math.max(0, c.contentRows - c.pageRows)) };
+    default: return { ...s, scroll: scrolled(s.scroll) };
   }
 }
 
@@ -216,8 +220,8 @@ function actOn(s0: DashState, action: Action, c: ActContext): DashState | Step {
     case 'back': return back(s);
     case 'down': return move(s, 1, c);
     case 'up': return move(s, -1, c);
-    case 'pageDown': return move(s, page, c);
-    case 'pageUp': return move(s, -page, c);
+    case 'pageDown': return move(s, page, c, true);
+    case 'pageUp': return move(s, -page, c, true);
     case 'home': return move(s, -1e9, c);
     case 'end': return move(s, 1e9, c);
     case 'open': {

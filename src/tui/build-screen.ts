@@ -70,7 +70,9 @@ export function buildFrame(s: DashState, data: ScreenData, size: FrameSize, colo
   if (s.help) {
     const lines = helpLines(size.width);
     const top = Math.max(0, Math.min(s.helpScroll, lines.length - room));
-    built = { lines: styled(lines.slice(top, top + room)), contentRows: lines.length, pageRows: room, panes: 1 };
+    const shown = styled(lines.slice(top, top + room));
+    if (top + room < lines.length) shown[shown.length - 1] = { text: `... ${lines.length - top - room + 1} more lines (j, PgDn)`, tone: 'dim' };
+    built = { lines: shown, contentRows: lines.length, pageRows: room, panes: 1 };
   } else if (screen === 'overview') {
     if (data.overview) {
       const o = overviewScreen(data.overview, s, unit, size.width, room, nowMs);

@@ -67,10 +67,14 @@ export function compareScreen(c: CompareVM, s: DashState, unit: FreqUnit, width:
     ? [{ text: 'no change to plant, requirements or compensator', tone: 'dim' }]
     : c.changes.flatMap((ch) => {
         const what = `${ch.what}${ch.key ? ' ' + cleanText(ch.key) : ''}`;
+        const from = ch.from === null ? '(none)' : cleanText(ch.from);
+        const to = ch.to === null ? '(none)' : cleanText(ch.to);
+        const one = `${what}: ${from} -> ${to}`;
+        if (one.length <= width) return [{ text: one, tone: 'info' as const }];
         return [
           { text: truncate(`${what}:`, width), tone: 'dim' as const },
-          { text: truncate(`  r${c.a.revision}  ${ch.from === null ? '(none)' : cleanText(ch.from)}`, width) },
-          { text: truncate(`  r${c.b.revision}  ${ch.to === null ? '(none)' : cleanText(ch.to)}`, width), tone: 'info' as const },
+          { text: truncate(`  r${c.a.revision}  ${from}`, width) },
+          { text: truncate(`  r${c.b.revision}  ${to}`, width), tone: 'info' as const },
         ];
       });
   const bi = Math.max(0, c.bodeB.findIndex((b) => b.variant === variant));

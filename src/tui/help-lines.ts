@@ -41,6 +41,15 @@ export function footerLine(scope: KeyScope, width: number, table: readonly KeyBi
   return truncate(head, Math.max(1, width - tail.length - 2)) + '  ' + tail;
 }
 
+const KEY_SPELLING: Record<string, string> = {
+  up: 'Up', down: 'Down', enter: 'Enter', esc: 'Esc', tab: 'Tab', pgup: 'PgUp', pgdn: 'PgDn', home: 'Home', end: 'End', space: 'Space',
+};
+
+/** Every key of a binding, as the help screen spells them ("j/Down"). */
+export function helpKeys(b: KeyBinding): string {
+  return b.keys.map((k) => KEY_SPELLING[k] ?? k).join('/');
+}
+
 /**
  * The help screen, generated from the key table: keys that work on every screen,
  * then each screen's own keys, then the keys while typing.
@@ -49,8 +58,8 @@ export function helpLines(width: number, table: readonly KeyBinding[] = KEY_TABL
   const screens = Object.keys(SCREEN_TITLE) as Screen[];
   const perScreen = screens.map((s) => unique(activeBindings(everything(s), table)));
   const common = perScreen[0]!.filter((b) => perScreen.every((list) => list.includes(b)));
-  const keyWidth = Math.max(...table.map((b) => b.keyLabel.length)) + 2;
-  const row = (b: KeyBinding) => truncate(`  ${b.keyLabel.padEnd(keyWidth)}${b.help}`, width);
+  const keyWidth = Math.max(...table.map((b) => helpKeys(b).length)) + 2;
+  const row = (b: KeyBinding) => truncate(`  ${helpKeys(b).padEnd(keyWidth)}${b.help}`, width);
   const out = ['Every screen', ...common.map(row)];
   screens.forEach((s, i) => {
     const own = perScreen[i]!.filter((b) => !common.includes(b));

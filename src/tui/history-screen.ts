@@ -23,7 +23,7 @@ export function historyScreen(d: LoopDetailVM, s: DashState, width: number, heig
   const head: StyledLine[] = [
     { text: truncate(`${cleanText(d.id)}: ${d.history.length} revisions, newest first`, width), tone: 'title' },
     {
-      text: truncate(s.marked === null ? 'Space marks one revision, Enter compares it with the cursor (or the cursor with the one before)' : `r${s.marked} marked: move to another and press Enter to compare`, width),
+      text: truncate(s.marked === null ? 'Space marks a revision; Enter compares the cursor with it (or with the one before)' : `r${s.marked} marked: move to another and press Enter to compare`, width),
       tone: 'dim',
     },
     { text: truncate(`    ${'rev'.padStart(4)} ${fit('change', 7)} ${fit('status', 10)} ${fit('author', 10)} ${fit('when', 10)} note`, width), tone: 'dim' },

@@ -68,7 +68,7 @@ export const KEY_TABLE: readonly KeyBinding[] = [
   bind(['enter'], 'Enter', 'save', 'save with this note', 'accept', typing('note')),
   bind(['esc'], 'Esc', 'do not save', 'do not save', 'cancel', typing('note')),
   // Moving (also scrolls the help screen).
-  bind(['j', 'down'], 'j/k', 'move', 'move down / up (arrows too)', 'down', moving),
+  bind(['j', 'down'], 'j/k', 'move', 'move down', 'down', moving),
   bind(['k', 'up'], 'k', 'up', 'move up', 'up', moving, false),
   bind(['pgdn', 'ctrl-d'], 'PgDn', 'page', 'page down', 'pageDown', moving, false),
   bind(['pgup', 'ctrl-u'], 'PgUp', 'page', 'page up', 'pageUp', moving, false),
@@ -83,7 +83,7 @@ export const KEY_TABLE: readonly KeyBinding[] = [
   bind(['f'], 'f', 'failing', 'show failing loops only (toggle)', 'failing', on('overview')),
   // Loop view.
   bind(['tab'], 'Tab', 'pane', 'next pane', 'pane', on('loop', 'edit')),
-  bind(['v'], 'v', 'variant', 'next plant variant', 'variant', on('loop', 'edit', 'compare')),
+  bind(['v'], 'v', 'variant', 'next plant variant', 'variant', on('loop', 'compare')),
   bind(['e'], 'e', 'edit', 'edit the compensator and requirements', 'edit', selected('overview', 'loop')),
   bind(['t'], 't', 'tune', 'tune with the design assistant', 'tune', (s) => selected('overview', 'loop')(s) && s.canTune),
   bind(['h'], 'h', 'history', 'revisions of the loop', 'history', selected('overview', 'loop')),

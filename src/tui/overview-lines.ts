@@ -1,5 +1,6 @@
 import type { FreqUnit } from '../model/units.js';
-import { formatNumber, toDisplayFrequency } from '../model/units.js';
+import { toDisplayFrequency } from '../model/units.js';
+import { compactNumber } from './compact-number.js';
 import { formatMetricValue } from '../engine/requirement-syntax.js';
 import type { LoopStatus } from '../model/requirements.js';
 import { cleanText } from './sanitize.js';
@@ -80,8 +81,8 @@ export function missText(m: MissVM, unit: FreqUnit): string {
   return `${m.metric} ${formatMetricValue(m.metric, m.value, unit)} ${rel} ${formatMetricValue(m.metric, m.limit, unit)}${where}${more}`;
 }
 
-const num = (x: number | null, digits = 3) => (x === null ? '-' : formatNumber(x, digits));
-const freq = (w: number | null, unit: FreqUnit) => (w === null ? '-' : formatNumber(toDisplayFrequency(w, unit), 3));
+const num = (x: number | null, width: number) => (x === null ? '-' : compactNumber(x, width));
+const freq = (w: number | null, unit: FreqUnit) => (w === null ? '-' : compactNumber(toDisplayFrequency(w, unit), 6));
 
 /** The overview columns for a display unit. */
 function columns(unit: FreqUnit): { fixed: Column<PlacedRow>[]; flex: Column<PlacedRow> } {
@@ -91,11 +92,11 @@ function columns(unit: FreqUnit): { fixed: Column<PlacedRow>[]; flex: Column<Pla
       { title: 'status', width: STATUS_LABEL_WIDTH, align: 'left', cell: ({ row }) => statusLabel(row.status) },
       { title: 'loop', width: 11, align: 'left', cell: ({ row, depth }) => (depth > 0 ? ' '.repeat(2 * depth - 1) + '`' : '') + cleanText(row.name) },
       { title: 'rev', width: 4, align: 'right', dropPriority: 2, cell: ({ row }) => `r${row.revision}` },
-      { title: 'PM deg', width: 6, align: 'right', cell: ({ row }) => num(row.headline.pmDeg) },
-      { title: 'GM dB', width: 5, align: 'right', cell: ({ row }) => num(row.headline.gmDb) },
+      { title: 'PM deg', width: 6, align: 'right', cell: ({ row }) => num(row.headline.pmDeg, 6) },
+      { title: 'GM dB', width: 5, align: 'right', cell: ({ row }) => num(row.headline.gmDb, 5) },
       { title: `fc ${u}`, width: 6, align: 'right', dropPriority: 4, cell: ({ row }) => freq(row.headline.crossoverRadS, unit) },
       { title: `bw ${u}`, width: 6, align: 'right', dropPriority: 3, cell: ({ row }) => freq(row.headline.bandwidthRadS, unit) },
-      { title: 'Ms', width: 4, align: 'right', dropPriority: 1, cell: ({ row }) => num(row.headline.peakSensitivity, 2) },
+      { title: 'Ms', width: 4, align: 'right', dropPriority: 1, cell: ({ row }) => num(row.headline.peakSensitivity, 4) },
     ],
     flex: {
       title: 'worst miss',

@@ -2,6 +2,7 @@ import type { FreqUnit } from '../model/units.js';
 import type { DashState } from './dash-state.js';
 import { windowTop } from './layout.js';
 import { filterRows, overviewHeader, overviewTable, placeRows } from './overview-lines.js';
+import { cleanText } from './sanitize.js';
 import { marker, type StyledLine } from './styled.js';
 import { truncate } from './text.js';
 import type { OverviewVM } from './view-model.js';
@@ -25,7 +26,7 @@ export function overviewScreen(vm: OverviewVM, s: DashState, unit: FreqUnit, wid
   const { titles, body } = overviewTable(placed, unit, width);
   const filters: string[] = [];
   if (s.failingOnly) filters.push('failing only (f)');
-  if (s.filter !== '' || s.typing === 'filter') filters.push(`name contains "${s.filter}"${s.typing === 'filter' ? '_' : ''}`);
+  if (s.filter !== '' || s.typing === 'filter') filters.push(`name contains "${cleanText(s.filter)}${s.typing === 'filter' ? '_' : ''}"`);
   const filterLine = filters.length ? `showing ${ids.length} of ${vm.rows.length}: ${filters.join(', ')}` : '';
   const head: StyledLine[] = [
     ...overviewHeader({ ...vm, unit }, width, nowMs).map((text, i) => ({ text, tone: i === 0 ? ('title' as const) : ('dim' as const) })),
