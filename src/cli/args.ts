@@ -75,7 +75,8 @@ function argError(e: unknown): string {
   const opt = /'(-[^' ]+)/.exec(msg)?.[1] ?? '';
   switch (code) {
     case 'ERR_PARSE_ARGS_UNKNOWN_OPTION':
-      return `unknown option '${opt}' (a value that starts with '-' goes after '--')`;
+      // A negative number or expression looks like an option to the parser: say how to pass it.
+      return /^-[\d.(s]/.test(opt) ? `'${opt}' reads as an option; put values that start with '-' after '--'` : `unknown option '${opt}'`;
     case 'ERR_PARSE_ARGS_INVALID_OPTION_VALUE':
       return /argument missing/.test(msg) ? `option '${opt}' needs a value` : `option '${opt}' takes no value`;
     default:
@@ -106,4 +107,19 @@ export function changeOptions(p: Parsed): { note?: string; author?: string; base
     out.force = true;
   }
   return out;
+}
+
+/** Runs the subcommand named by the first argument ('axis add', 'loop list' ...); bare or --help prints `usage`. */
+export async function dispatch(
+  args: readonly string[], ctx: CommandContext, name: string, usage: string,
+  subs: Readonly<Record<string, (rest: string[]) => Promise<number>>>,
+): Promise<number> {
+  const [sub, ...rest] = args;
+  if (sub === undefined || sub === '--help' || sub === '-h') {
+    ctx.out(usage);
+    return 0;
+  }
+  const run = Object.hasOwn(subs, sub) ? subs[sub] : undefined;
+  if (run === undefined) throw new UserError(`${name}: unknown subcommand '${sub}'; ${usage}`);
+  return run(rest);
 }

@@ -1,8 +1,7 @@
-import { JSON_OPT, NOTE, parseCommand, type CommandSpec } from '../args.js';
+import { dispatch, JSON_OPT, NOTE, parseCommand, type CommandSpec } from '../args.js';
 import type { CommandContext } from '../context.js';
 import { jsonText, table } from '../output.js';
 import { withMachine } from '../store.js';
-import { UserError } from '../../model/errors.js';
 
 const ADD: CommandSpec = {
   name: 'axis add',
@@ -22,14 +21,7 @@ const USAGE = 'usage: loopledger axis add NAME [-m NOTE] | loopledger axis list 
 
 /** `axis add` and `axis list`. */
 export async function run(args: string[], ctx: CommandContext): Promise<number> {
-  const [sub, ...rest] = args;
-  if (sub === 'add') return add(rest, ctx);
-  if (sub === 'list') return list(rest, ctx);
-  if (sub === undefined || sub === '--help' || sub === '-h') {
-    ctx.out(USAGE);
-    return 0;
-  }
-  throw new UserError(`axis: unknown subcommand '${sub}'; ${USAGE}`);
+  return dispatch(args, ctx, 'axis', USAGE, { add: (r) => add(r, ctx), list: (r) => list(r, ctx) });
 }
 
 async function add(args: string[], ctx: CommandContext): Promise<number> {

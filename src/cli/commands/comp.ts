@@ -1,6 +1,5 @@
 import { BLOCK_SYNTAX_HELP } from '../../engine/block-syntax.js';
-import { UserError } from '../../model/errors.js';
-import { BASE, changeOptions, JSON_OPT, NOTE, parseCommand, type CommandSpec } from '../args.js';
+import { BASE, changeOptions, dispatch, JSON_OPT, NOTE, parseCommand, type CommandSpec } from '../args.js';
 import type { CommandContext } from '../context.js';
 import { runChange } from '../store.js';
 
@@ -24,13 +23,11 @@ const USAGE = 'usage: loopledger comp set AXIS/LOOP BLOCK... [-m NOTE] [--base R
 
 /** `comp set`. */
 export async function run(args: string[], ctx: CommandContext): Promise<number> {
-  const [sub, ...rest] = args;
-  if (sub === undefined || sub === '--help' || sub === '-h') {
-    ctx.out(USAGE);
-    return 0;
-  }
-  if (sub !== 'set') throw new UserError(`comp: unknown subcommand '${sub}'; ${USAGE}`);
-  const p = parseCommand(rest, SET, ctx);
+  return dispatch(args, ctx, 'comp', USAGE, { set: (r) => set(r, ctx) });
+}
+
+async function set(args: string[], ctx: CommandContext): Promise<number> {
+  const p = parseCommand(args, SET, ctx);
   if (p === null) return 0;
   const [ref, ...blocks] = p.positionals as [string, ...string[]];
   const opts = changeOptions(p);

@@ -35,6 +35,6 @@ export async function run(args: string[], ctx: CommandContext): Promise<number> 
     fs.rmSync(tmp, { force: true });
     throw new UserError(`dump: cannot write ${file} (${(e as NodeJS.ErrnoException).code ?? String(e)}); check the path and permissions`);
   }
-  ctx.err(`dump written to ${file}`);
+  ctx.out(`dump written to ${file}`);
   return 0;
 }

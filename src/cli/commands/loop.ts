@@ -1,6 +1,6 @@
 import { UserError } from '../../model/errors.js';
-import { formatFrequency, parseFrequencyRadS, toDisplayFrequency } from '../../model/units.js';
-import { JSON_OPT, NOTE, parseCommand, type CommandSpec } from '../args.js';
+import { formatFrequency, parseFrequencyRadS, splitNumberSuffix, toDisplayFrequency, type FreqUnit } from '../../model/units.js';
+import { dispatch, JSON_OPT, NOTE, parseCommand, type CommandSpec } from '../args.js';
 import type { CommandContext } from '../context.js';
 import { jsonText, shortTime, table } from '../output.js';
 import { runChange, withMachine } from '../store.js';
@@ -39,18 +39,14 @@ const USAGE = 'usage: loopledger loop add AXIS/LOOP --plant EXPR ... | loop list
 
 /** `loop add`, `loop list`, `loop show`. */
 export async function run(args: string[], ctx: CommandContext): Promise<number> {
-  const [sub, ...rest] = args;
-  if (sub === 'add') return add(rest, ctx);
-  if (sub === 'list') return list(rest, ctx);
-  if (sub === 'show') {
-    const p = parseCommand(rest, SHOW, ctx);
-    return p === null ? 0 : show(p, ctx);
-  }
-  if (sub === undefined || sub === '--help' || sub === '-h') {
-    ctx.out(USAGE);
-    return 0;
-  }
-  throw new UserError(`loop: unknown subcommand '${sub}'; ${USAGE}`);
+  return dispatch(args, ctx, 'loop', USAGE, {
+    add: (r) => add(r, ctx),
+    list: (r) => list(r, ctx),
+    show: async (r) => {
+      const p = parseCommand(r, SHOW, ctx);
+      return p === null ? 0 : show(p, ctx);
+    },
+  });
 }
 
 async function add(args: string[], ctx: CommandContext): Promise<number> {
@@ -61,11 +57,20 @@ async function add(args: string[], ctx: CommandContext): Promise<number> {
   const ref = p.positionals[0]!;
   return runChange(ctx, p, p.str('author'), (m) => {
     const rate = p.str('sample-rate');
-    const sampleRateHz = rate === undefined ? null : toDisplayFrequency(parseFrequencyRadS(rate, m.settings().unit, '--sample-rate'), 'hz');
+    const sampleRateHz = rate === undefined ? null : parseRateHz(rate, m.settings().unit);
     const note = p.str('message');
     const variant = p.str('variant');
     return m.addLoop(ref, { plant, inner: p.str('inner') ?? null, sampleRateHz, ...(variant === undefined ? {} : { variant }), ...(note === undefined ? {} : { note }) });
   });
+}
+
+/** A sample rate in Hz; typed in Hz (or kHz) it is kept exactly, not sent through rad/s and back. */
+function parseRateHz(text: string, unit: FreqUnit): number {
+  const wRadS = parseFrequencyRadS(text, unit, '--sample-rate'); // validates the number and the unit
+  const { value, suffix } = splitNumberSuffix(text, '--sample-rate');
+  if (suffix === 'hz' || (suffix === '' && unit === 'hz')) return value;
+  if (suffix === 'khz') return value * 1e3;
+  return toDisplayFrequency(wRadS, 'hz');
 }
 
 async function list(args: string[], ctx: CommandContext): Promise<number> {

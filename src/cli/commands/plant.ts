@@ -1,5 +1,4 @@
-import { UserError } from '../../model/errors.js';
-import { BASE, changeOptions, JSON_OPT, NOTE, parseCommand, type CommandSpec } from '../args.js';
+import { BASE, changeOptions, dispatch, JSON_OPT, NOTE, parseCommand, type CommandSpec } from '../args.js';
 import type { CommandContext } from '../context.js';
 import { runChange } from '../store.js';
 
@@ -27,13 +26,11 @@ const USAGE = 'usage: loopledger plant set AXIS/LOOP EXPR [--variant NAME] [-m N
 
 /** `plant set` and `plant drop`. */
 export async function run(args: string[], ctx: CommandContext): Promise<number> {
-  const [sub, ...rest] = args;
-  if (sub === undefined || sub === '--help' || sub === '-h') {
-    ctx.out(USAGE);
-    return 0;
-  }
-  if (sub !== 'set' && sub !== 'drop') throw new UserError(`plant: unknown subcommand '${sub}'; ${USAGE}`);
-  const p = parseCommand(rest, sub === 'set' ? SET : DROP, ctx);
+  return dispatch(args, ctx, 'plant', USAGE, { set: (r) => change('set', r, ctx), drop: (r) => change('drop', r, ctx) });
+}
+
+async function change(sub: 'set' | 'drop', args: string[], ctx: CommandContext): Promise<number> {
+  const p = parseCommand(args, sub === 'set' ? SET : DROP, ctx);
   if (p === null) return 0;
   const [ref, arg] = [p.positionals[0]!, p.positionals[1]!];
   const opts = changeOptions(p);
