@@ -81,7 +81,7 @@ function checkState(v: unknown, where: string): LoopState {
       num(tf.delayS, `${w}.tf.delayS`);
     }
     try {
-      checkBlock(blk as unknown as Block, 'rad');
+      checkBlock(blk as unknown as Block);
     } catch (e) {
       fail(w, e instanceof Error ? e.message : String(e));
     }

@@ -36,7 +36,7 @@ export async function parseBlocks(inputs: readonly BlockInput[], unit: FreqUnit)
     if (parse === null) throw new Error('expression parser not loaded');
     return parse(t, 'compensator');
   };
-  return inputs.map((b) => checkBlock(typeof b === 'string' ? parseBlock(b, unit, parseExpr) : b, unit));
+  return inputs.map((b) => checkBlock(typeof b === 'string' ? parseBlock(b, unit, parseExpr) : b));
 }
 
 /** Requirement words or requirements -> requirements, in the store's unit. */
@@ -53,7 +53,7 @@ function checkRequirement(r: Requirement): Requirement {
 const positive = (x: number) => Number.isFinite(x) && x > 0;
 
 /** Checks a block built by a face (parsed words are already checked, but cheaply checked again). */
-export function checkBlock(b: Block, unit: FreqUnit): Block {
+export function checkBlock(b: Block): Block {
   const bad = (why: string): never => {
     throw new UserError(`block ${b.kind}: ${why}`);
   };
@@ -78,7 +78,6 @@ export function checkBlock(b: Block, unit: FreqUnit): Block {
       break;
     default: bad('unknown block kind');
   }
-  void unit;
   return b;
 }
 

@@ -13,7 +13,7 @@ import type { Machine, OpenOptions } from './index.js';
 import { makeCompensator, parseBlocks, parsePlant, parseRequirements } from './inputs.js';
 import { loadInto, readDump } from './load.js';
 import { applyChange, createLoop } from './mutate.js';
-import { checkName } from './names.js';
+import { checkName, parseLoopRef } from './names.js';
 import { formatBlock } from './block-syntax.js';
 import { DEFAULT_VARIANT, requirementKey, withCompensator, withoutPlant, withoutRequirements, withPlant, withRequirements } from './state.js';
 import type { AxisInfo, BlockInput, ChangeOptions, ChangeOutcome, CheckReport, LoopDetail, LoopDiff, LoopInfo, MachineSettings, OverviewRow, RequirementInput, Revision, RevisionInfo, WhatIfEdit, WhatIfResult } from './types.js';
@@ -61,7 +61,7 @@ class MachineImpl implements Machine {
   }
 
   async addLoop(ref: string, opts: { plant: string; variant?: string; inner?: string | null; sampleRateHz?: number | null; note?: string; author?: string }): Promise<ChangeOutcome> {
-    findLoopAxisOnly(this.core, ref);
+    requireAxisOf(this.core, ref);
     const plant = await parsePlant(opts.plant);
     return createLoop(this.core, ref, { plant, variant: opts.variant ?? DEFAULT_VARIANT, inner: opts.inner ?? null, sampleRateHz: opts.sampleRateHz ?? null }, opts);
   }
@@ -180,11 +180,9 @@ class MachineImpl implements Machine {
 }
 
 /** Fails early (before parsing expressions) when the axis of a new loop does not exist. */
-function findLoopAxisOnly(core: Core, ref: string): void {
-  const axis = ref.split('/')[0] ?? '';
-  if (axis !== '' && !core.sql.axisByName(axis) && ref.includes('/')) {
-    throw new UserError(`no axis '${axis}' in this store; add it first with 'loopledger axis add ${axis}'`);
-  }
+function requireAxisOf(core: Core, ref: string): void {
+  const { axis } = parseLoopRef(ref);
+  if (!core.sql.axisByName(axis)) throw new UserError(`no axis '${axis}' in this store; add it first with 'loopledger axis add ${axis}'`);
 }
 
 /** Opens an existing, initialised store. */

@@ -87,6 +87,12 @@ describe('recheck propagation', () => {
     };
     const n0 = rows().length;
 
+    // What-if on the inner loop shows the outer loop as it would be, and stores nothing.
+    const w = await m.whatIf('X/vel', { compensator: ['gain:40'] });
+    expect(w.dependants.map((r) => r.loop)).toEqual(['X/pos']);
+    close(poles(w.dependants[0]!).map((p) => p.re).sort((a, b) => a - b), [-20 - Math.sqrt(240), -20 + Math.sqrt(240)], 1e-9);
+    expect(rows().length).toBe(n0);
+
     // Inner requirement change: the outer loop sees the same dynamics, its stored result stays fresh.
     const spec = await m.setRequirements('X/vel', ['pm>=45']);
     expect(spec.results.map((r) => r.loop)).toEqual(['X/vel', 'X/pos']);
