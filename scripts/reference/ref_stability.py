@@ -99,8 +99,10 @@ def delay_poles(loop: Loop) -> np.ndarray:
             s = s - step
             if abs(step) < 1e-15 * max(abs(s), 1e-300):
                 break
+        # residual relative to the size of the terms (|coefficient| |s|^k), so that a common
+        # root of D and N (a cancelled plant pole, still a closed-loop pole) is accepted
         with np.errstate(all="ignore"):
-            scale = abs(np.polyval(D, s)) + abs(np.polyval(N, s) * np.exp(-T * s))
+            scale = (np.polyval(np.abs(D), abs(s)) + np.polyval(np.abs(N), abs(s)) * abs(np.exp(-T * s)))
             resid = abs(np.polyval(D, s) + np.polyval(N, s) * np.exp(-T * s)) / scale
         if np.isfinite(resid) and resid < 1e-12 and s.imag >= -1e-9 * abs(s) and all(abs(s - f) > 1e-8 * abs(s) for f in found):
             found.append(complex(s.real, 0.0) if abs(s.imag) <= 1e-10 * abs(s) else s)
