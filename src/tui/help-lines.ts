@@ -65,11 +65,12 @@ export function helpLines(width: number, table: readonly KeyBinding[] = KEY_TABL
     const own = perScreen[i]!.filter((b) => !common.includes(b));
     if (own.length) out.push('', SCREEN_TITLE[s], ...own.map(row));
   });
-  const typing = unique(
-    (['filter', 'field', 'note'] as const).flatMap((t) => activeBindings(everything('edit', t), table)),
-  );
+  const onHelp = unique(activeBindings({ ...everything('overview'), help: true }, table)).filter((b) => !common.includes(b));
+  if (onHelp.length) out.push('', 'This help screen', ...onHelp.map(row));
+  // Enter and Esc mean something different for each kind of text: list each meaning.
+  const typing = (['filter', 'field', 'note'] as const).flatMap((t) => activeBindings(everything('edit', t), table));
   out.push('', 'While typing (filter, a block or requirement, a note)', ...typing.map(row));
-  out.push('  Backspace  delete the last character');
+  out.push(truncate(`  ${'Backspace'.padEnd(keyWidth)}delete the last character`, width));
   out.push('', 'Status: + pass  x fail  ! unstable  ? error (cannot be analysed)');
   return out;
 }
