@@ -103,8 +103,7 @@ export function App({ source, colour, pollMs = 1000, now = Date.now }: AppProps)
           return;
         }
         case 'apply': {
-          const base = (await source.loop(eff.loopId)).revision;
-          const r = await source.applyProposal(eff.loopId, eff.proposal, base, eff.note);
+          const r = await source.applyProposal(eff.loopId, eff.proposal, eff.proposal.baseRevision, eff.note);
           update((s) => saveDone(s, eff.loopId, r));
           bumpOwn();
           return;

@@ -99,7 +99,7 @@ export function buildFrame(s: DashState, data: ScreenData, size: FrameSize, colo
     : s.loopId !== null;
   const scope: KeyScope = {
     screen, help: s.help, typing: s.typing, hasSelection,
-    hasProposal: s.proposal?.ok === true, canTune: data.methods.length > 0,
+    hasProposal: s.proposal?.ok === true && s.proposal.meets, canTune: data.methods.length > 0,
   };
   const variants = screen === 'compare' ? new Set(data.compare?.deltas.map((d) => d.variant)).size : (detail?.variants.length ?? 1);
   const ctx: ActContext = {

@@ -61,7 +61,13 @@ export function loopCurves(m: Machine, ref: string, comp: Compensator, variants:
   for (const v of variants) {
     const plant = cascade.plant(id, cascade.resolve(id, v.variant)).tf;
     const f = factorTf(tfSeries(c, plant));
-    const [lo, hi] = frequencyRangeRadS(f, [...v.crossoversRadS, ...v.phaseCrossoversRadS]);
+    const marks = [...v.crossoversRadS, ...v.phaseCrossoversRadS].filter((w) => w > 0 && Number.isFinite(w));
+    let [lo, hi] = frequencyRangeRadS(f, marks);
+    // The sketch is read around the crossovers: beyond two decades either side, a column is better spent near them.
+    if (marks.length > 0) {
+      lo = Math.max(lo, Math.min(...marks) / 100);
+      hi = Math.min(hi, Math.max(...marks) * 100);
+    }
     const fr = frequencyResponse(f, loopGridRadS(f, lo, hi, POINTS_PER_DECADE));
     bode.push({
       variant: v.variant,

@@ -3,6 +3,7 @@ import { UserError } from '../model/errors.js';
 import { formatBlock } from '../engine/block-syntax.js';
 import { formatRequirement } from '../engine/requirement-syntax.js';
 import { checksOf, historyOf, overviewRowsOf, revisionOf, variantsOf } from './engine-adapt.js';
+import { proposalNote, proposeFor, tuneMethods } from './engine-tune.js';
 import { curveVariantsOf, loopCurves, type CurveVariant } from './engine-curves.js';
 import type { DashSource } from './source.js';
 import type {
@@ -102,7 +103,7 @@ export class EngineSource implements DashSource {
       const dropped = rev.requirements.filter((r) => !after.has(formatRequirement(r, unit))).map((r) => `${r.metric}${r.op}`);
       const added = reqs.filter((r) => !before.has(formatRequirement(r, unit)));
       let base = baseRevision;
-      const opts = () => ({ base, note, ...(this.author !== undefined ? { author: this.author } : {}) });
+      const opts = () => ({ base, note, ...this.by() });
       // One revision per kind of change, each based on the one before: the first carries the user's base,
       // so a concurrent change by someone else is refused before anything is written.
       if (compChanged) base = (await this.m.setCompensator(loopId, blocks, { ...opts(), ideal: rev.compensator.ideal === true })).revision.number;
@@ -120,15 +121,33 @@ export class EngineSource implements DashSource {
   }
 
   tuneMethods(): readonly TuneMethodVM[] {
-    return [];
+    return tuneMethods();
   }
 
-  async propose(_loopId: string, method: string): Promise<ProposalVM> {
-    return { ok: false, error: `the design method '${method}' is not available in this build` };
+  async propose(loopId: string, method: string): Promise<ProposalVM> {
+    return proposeFor(this.m, loopId, method);
   }
 
-  async applyProposal(): Promise<SaveResultVM> {
-    return { ok: false, conflict: false, message: 'the design assistant is not available in this build' };
+  async applyProposal(loopId: string, p: ProposalVM & { ok: true }, _baseRevision: number, note: string): Promise<SaveResultVM> {
+    if (!p.meets) return { ok: false, conflict: false, message: `the proposal does not meet every requirement on every variant (${p.message})` };
+    // Based on the revision the design read: if the loop moved on since, the design is stale.
+    return this.write(() => this.m.setCompensator(loopId, p.blocks, { base: p.baseRevision, note: proposalNote(note, p), ...this.by() }));
+  }
+
+  /** The author option, when the dashboard was given one. */
+  private by(): { author?: string } {
+    return this.author !== undefined ? { author: this.author } : {};
+  }
+
+  /** A write whose refusals come back as results: conflicts named, bad input as its message. */
+  private async write(f: () => Promise<{ revision: { number: number } }>): Promise<SaveResultVM> {
+    try {
+      return { ok: true, revision: (await f()).revision.number };
+    } catch (e) {
+      if (e instanceof ConflictError) return { ok: false, conflict: true, message: e.message };
+      if (e instanceof UserError) return { ok: false, conflict: false, message: e.message };
+      throw e;
+    }
   }
 
   close(): void {

@@ -72,5 +72,7 @@ export function helpLines(width: number, table: readonly KeyBinding[] = KEY_TABL
   out.push('', 'While typing (filter, a block or requirement, a note)', ...typing.map(row));
   out.push(truncate(`  ${'Backspace'.padEnd(keyWidth)}delete the last character`, width));
   out.push('', 'Status: + pass  x fail  ! unstable  ? error (cannot be analysed)');
+  out.push('Worst miss: the first requirement missed, "+N" when N more also miss.');
+  out.push('Sketches: ":" marks a gain crossover, "." the 0 dB, -180 deg and final-value rows.');
   return out;
 }

@@ -72,13 +72,17 @@ export function overviewHeader(vm: OverviewVM, width: number, nowMs: number): st
   return [truncate(first, width), truncate(second, width)];
 }
 
-/** "pm 31.2deg < 45deg (loaded) +2": a missed requirement in a few words, and how many more. */
+/** "pm 31.2 < 45deg (loaded) +2": a missed requirement in a few words (the unit once), and how many more also miss. */
 export function missText(m: MissVM, unit: FreqUnit): string {
   const where = m.variant !== '' ? ` (${cleanText(m.variant)})` : '';
   const more = m.more > 0 ? ` +${m.more}` : '';
   if (m.value === null) return `${m.metric}: ${cleanText(m.reason ?? 'cannot be computed')}${where}${more}`;
   const rel = m.op === '>=' ? '<' : '>';
-  return `${m.metric} ${formatMetricValue(m.metric, m.value, unit)} ${rel} ${formatMetricValue(m.metric, m.limit, unit)}${where}${more}`;
+  const limit = formatMetricValue(m.metric, m.limit, unit);
+  const value = formatMetricValue(m.metric, m.value, unit);
+  const suffix = /[^\d.]*$/.exec(limit)![0];
+  const bare = suffix !== '' && value.endsWith(suffix) && /\d$/.test(value.slice(0, -suffix.length)) ? value.slice(0, -suffix.length) : value;
+  return `${m.metric} ${bare} ${rel} ${limit}${where}${more}`;
 }
 
 const num = (x: number | null, width: number) => (x === null ? '-' : compactNumber(x, width));
@@ -90,7 +94,7 @@ function columns(unit: FreqUnit): { fixed: Column<PlacedRow>[]; flex: Column<Pla
   return {
     fixed: [
       { title: 'status', width: STATUS_LABEL_WIDTH, align: 'left', cell: ({ row }) => statusLabel(row.status) },
-      { title: 'loop', width: 11, align: 'left', cell: ({ row, depth }) => (depth > 0 ? ' '.repeat(2 * depth - 1) + '`' : '') + cleanText(row.name) },
+      { title: 'loop', width: 11, align: 'left', cell: ({ row, depth }) => (depth > 0 ? ' '.repeat(2 * (depth - 1)) + '└ ' : '') + cleanText(row.name) },
       { title: 'rev', width: 4, align: 'right', dropPriority: 2, cell: ({ row }) => `r${row.revision}` },
       { title: 'PM deg', width: 6, align: 'right', cell: ({ row }) => num(row.headline.pmDeg, 6) },
       { title: 'GM dB', width: 5, align: 'right', cell: ({ row }) => num(row.headline.gmDb, 5) },

@@ -19,7 +19,7 @@ export function tuneScreen(
   loopId: string, methods: readonly TuneMethodVM[], s: DashState, proposal: ProposalVM | null,
   unit: FreqUnit, width: number, height: number,
 ): ScreenLines {
-  const head: StyledLine[] = [{ text: truncate(`Tune ${cleanText(loopId)}: pick a method, Enter runs it, s saves the proposal`, width), tone: 'title' }];
+  const head: StyledLine[] = [{ text: truncate(`Tune ${cleanText(loopId)}: pick a method, Enter runs it; nothing is saved until s`, width), tone: 'title' }];
   if (methods.length === 0) head.push({ text: 'the design assistant offers no method here', tone: 'dim' });
   const list: StyledLine[] = methods.map((m) => ({
     text: truncate(`${marker(m.key === s.tuneMethod)}${m.key.padEnd(9)} ${cleanText(m.label)}`, width),
@@ -30,9 +30,11 @@ export function tuneScreen(
   if (proposal?.ok) {
     body.push(
       { text: truncate(`proposal: ${proposal.blocks.map((b) => blockText(b, unit)).join(' ')}`, width), tone: 'info' },
-      { text: truncate(`predicted ${statusLabel(proposal.status)}  ${headlineText(proposal.headline, unit)}`, width), tone: proposal.status },
+      { text: truncate(`predicted ${statusLabel(proposal.status)}: ${cleanText(proposal.message)}`, width), tone: proposal.status },
+      ...proposal.variants.map((v) => ({ text: truncate(`  ${cleanText(v.name).padEnd(9)} ${v.error ? `? ${cleanText(v.error)}` : headlineText(v.headline, unit)}`, width) })),
       ...checklistLines(proposal.checks, unit, width).slice(1).map((text) => ({ text, tone: text.startsWith('x') ? ('fail' as const) : ('plain' as const) })),
-      { text: 'worksheet', tone: 'dim' },
+      { text: proposal.meets ? 's saves it as a new revision (the worksheet goes into the note)' : 'misses a requirement: it cannot be saved from here', tone: 'dim' },
+      { text: 'worksheet (PgUp/PgDn)', tone: 'dim' },
       ...proposal.worksheet.map((w) => ({ text: truncate('  ' + cleanText(w), width) })),
     );
   }

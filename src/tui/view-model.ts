@@ -210,10 +210,16 @@ export type ProposalVM =
   | {
       readonly ok: true;
       readonly method: string;
+      /** The revision the design read; applying it is based on this one. */
+      readonly baseRevision: number;
+      /** True only when every variant is stable and meets every requirement: only then may it be applied. */
+      readonly meets: boolean;
+      readonly message: string;
+      /** Worksheet lines, frequencies in the store's unit. */
       readonly worksheet: readonly string[];
       readonly blocks: readonly Block[];
       readonly status: LoopStatus;
+      readonly variants: readonly VariantVM[];
       readonly checks: readonly CheckVM[];
-      readonly headline: HeadlineVM;
     }
   | { readonly ok: false; readonly error: string };

@@ -52,8 +52,8 @@ describe('dashboard', () => {
     const lines = ui.frame().split('\n');
     const pos = lines.findIndex((l) => /\+ pass\s+pos/.test(l));
     expect(pos).toBeGreaterThan(0);
-    expect(lines[pos + 1]).toMatch(/x fail\s+`vel/);
-    expect(lines[pos + 1]).toContain('pm 28deg < 45deg');
+    expect(lines[pos + 1]).toMatch(/x fail\s+└ vel/);
+    expect(lines[pos + 1]).toContain('pm 28 < 45deg');
     expect(lines[pos]).toContain('51.8');
     expect(ui.frame()).toContain('3 loops: 2 pass, 1 fail, 0 unstable');
     // The frame is one line shorter than the 24-row default window.
@@ -66,16 +66,16 @@ describe('dashboard', () => {
     await ui.see('Y');
     expect(selectedLine(ui.frame())).toMatch(/pos/);
     await ui.press('j');
-    expect(selectedLine(ui.frame())).toMatch(/`vel/);
+    expect(selectedLine(ui.frame())).toMatch(/└ vel/);
     await ui.press(DOWN);
     await ui.see(/^> .*pos/m);
     await ui.press('k');
-    await ui.see(/^> .*`vel/m);
+    await ui.see(/^> .*└ vel/m);
     // Another process adds a loop before the selected one: the selection stays on X/vel.
     src.loops.unshift(unitPlantLoop('A/new', 1, []));
     src.version++;
     await ui.see('axis A');
-    expect(selectedLine(ui.frame())).toMatch(/`vel/);
+    expect(selectedLine(ui.frame())).toMatch(/└ vel/);
   });
 
   it('filters by name with / and to failing loops with f; Esc clears', async () => {
