@@ -1,4 +1,7 @@
+import fs from 'node:fs';
+import path from 'node:path';
 import { openMachine, type ChangeOutcome, type Machine } from '../engine/index.js';
+import { UserError } from '../model/errors.js';
 import type { Parsed } from './args.js';
 import type { CommandContext } from './context.js';
 import { jsonText } from './output.js';
@@ -24,4 +27,10 @@ export async function runChange(ctx: CommandContext, p: Parsed, author: string |
     ctx.out(p.flag('json') ? jsonText(o) : outcomeLines(o, m.settings().unit).join('\n'));
     return 0;
   });
+}
+
+/** Refuses a new store whose directory does not exist (before anything tries to create the file). */
+export function requireDirectory(file: string): void {
+  const dir = path.dirname(path.resolve(file));
+  if (!fs.existsSync(dir)) throw new UserError(`cannot create ${file}: the directory ${dir} does not exist; create it first or choose another --store`);
 }

@@ -106,6 +106,14 @@ describe('bad stores are refused and left alone', () => {
     }
   });
 
+  it('a store in a directory that does not exist', async () => {
+    const d = tempDir();
+    for (const args of [['init'], ['demo'], ['load', 'x.json']]) {
+      expect(refused(await cli('--store', path.join(d, 'no', 'such', 'dir', 'm.db'), ...args))).toMatch(/directory .* does not exist/);
+    }
+    expect(fs.readdirSync(d)).toEqual([]);
+  });
+
   it('a refused load leaves no store behind', async () => {
     const d = tempDir();
     const target = path.join(d, 'new.db');

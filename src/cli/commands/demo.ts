@@ -1,6 +1,7 @@
 import { DEMO_STORE, ensureDemo } from '../../engine/demo.js';
 import { parseCommand, type CommandSpec } from '../args.js';
 import type { CommandContext } from '../context.js';
+import { requireDirectory } from '../store.js';
 import { run as check } from './check.js';
 
 const SPEC: CommandSpec = {
@@ -21,6 +22,7 @@ export async function run(args: string[], ctx: CommandContext): Promise<number> 
   const p = parseCommand(args, SPEC, ctx);
   if (p === null) return 0;
   const path = ctx.storeGiven ? ctx.storePath : DEMO_STORE;
+  requireDirectory(path);
   const { machine: m, created } = await ensureDemo(path);
   try {
     const s = m.settings();

@@ -4,6 +4,7 @@ import { UserError } from '../../model/errors.js';
 import { JSON_OPT, parseCommand, type CommandSpec } from '../args.js';
 import type { CommandContext } from '../context.js';
 import { jsonText } from '../output.js';
+import { requireDirectory } from '../store.js';
 
 const SPEC: CommandSpec = {
   name: 'init',
@@ -25,6 +26,7 @@ export async function run(args: string[], ctx: CommandContext): Promise<number> 
   const units = (p.str('units') ?? 'hz').toLowerCase();
   if (units !== 'hz' && units !== 'rad') throw new UserError(`init: --units '${units}' is not known; use hz or rad`);
   const name = p.str('name') ?? path.basename(ctx.storePath).replace(/(\.loopledger)?\.db$/i, '');
+  requireDirectory(ctx.storePath);
   const m = initMachine(ctx.storePath, { name, unit: units });
   try {
     const s = m.settings();

@@ -4,6 +4,7 @@ import { UserError } from '../../model/errors.js';
 import { JSON_OPT, parseCommand, type CommandSpec } from '../args.js';
 import type { CommandContext } from '../context.js';
 import { jsonText } from '../output.js';
+import { requireDirectory } from '../store.js';
 
 const SPEC: CommandSpec = {
   name: 'load',
@@ -23,6 +24,7 @@ export async function run(args: string[], ctx: CommandContext): Promise<number> 
   const p = parseCommand(args, SPEC, ctx);
   if (p === null) return 0;
   const file = p.positionals[0]!;
+  requireDirectory(ctx.storePath);
   let text: string;
   try {
     text = fs.readFileSync(file, 'utf8');
