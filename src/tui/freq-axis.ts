@@ -66,7 +66,10 @@ export function frequencyScaleLine(grid: readonly number[], unit: FreqUnit, mark
   }
   for (const w of markRadS) {
     const i = sampleIndex(grid, w);
-    if (i !== null && cells[LABEL_WIDTH + i] === ' ') cells[LABEL_WIDTH + i] = '^';
+    if (i === null) continue;
+    // Never straight after a label's text, where it would read as part of it ("10^").
+    const c = LABEL_WIDTH + i;
+    if (cells[c] === ' ' && (cells[c - 1] === ' ' || cells[c - 1] === '^')) cells[c] = '^';
   }
   return cells.join('').trimEnd();
 }

@@ -49,6 +49,14 @@ describe('frequency axis', () => {
     }
   });
 
+  it('never glues a crossover mark to the end of a label', () => {
+    const grid = logGrid(1, 1000, 73);
+    const right = grid[sampleIndex(grid, 10)! + 3]!;
+    const line = frequencyScaleLine(grid, 'rad', [right, grid[40]!]);
+    expect(line).not.toContain('10^');
+    expect(line).toContain('^');
+  });
+
   it('uses 1-2-5 ticks when the span is under two decades, in Hz when asked', () => {
     expect(frequencyTicks(3, 60)).toEqual([5, 10, 20, 50]);
     const grid = logGrid(2 * Math.PI * 3, 2 * Math.PI * 60, 50);
