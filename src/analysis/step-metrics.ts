@@ -91,7 +91,8 @@ export function traceMetrics(tr: StepTrace, yF: number): TraceMetrics {
   return {
     metrics: {
       overshootPct: overshoot,
-      undershootPct: zMin < 0 ? -100 * zMin : 0,
+      // A dip of a billionth of y_f is rounding, not undershoot.
+      undershootPct: zMin < -1e-9 ? -100 * zMin : 0,
       riseTimeS: t10 !== null && t90 !== null ? t90 - t10 : null,
       settlingTimeS: settling,
       peakTimeS: overshoot > 0 ? tMax : null,

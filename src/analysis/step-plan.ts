@@ -91,6 +91,12 @@ const TAIL = 1e-4;
 /** Fewest steps over the whole run, so that slow responses are drawn smoothly. */
 const MIN_STEPS = 200;
 
+/** Where steps may exceed the delay: never before longStepsFromS. */
+interface DelayLimits {
+  readonly ticks: number;
+  readonly longStepsFromS: number;
+}
+
 interface Weighted {
   mag: number;
   sigma: number;
@@ -98,7 +104,7 @@ interface Weighted {
 }
 
 /** The levels for a base step h0 up to durationS; null when more than maxSteps are needed. */
-function schedule(ms: readonly Weighted[], h0S: number, hMaxS: number, maxStride: number, durationS: number, maxSteps: number): PlanLevel[] | null {
+function schedule(ms: readonly Weighted[], h0S: number, hMaxS: number, delay: DelayLimits, durationS: number, maxSteps: number): PlanLevel[] | null {
   const levels: PlanLevel[] = [];
   let tick = 0;
   let stride = 1;
@@ -107,8 +113,9 @@ function schedule(ms: readonly Weighted[], h0S: number, hMaxS: number, maxStride
   for (;;) {
     const next = stride * 2;
     let switchS = Infinity;
-    if (next <= maxStride && next * h0S <= hMaxS) {
-      switchS = 0;
+    if (next * h0S <= hMaxS) {
+      // Steps longer than the delay only once its jumps and kinks have faded.
+      switchS = delay.ticks > 0 && next > delay.ticks ? delay.longStepsFromS : 0;
       for (const m of ms) {
         if (m.mag * next * h0S <= RESOLVE || m.weight <= RESOLVE_EPS) continue;
         switchS = Math.max(switchS, m.sigma > 0 ? Math.log(m.weight / RESOLVE_EPS) / m.sigma : Infinity);
@@ -140,6 +147,7 @@ export function planStep(
   modes: readonly Mode[],
   openLoopPoles: readonly Complex[],
   delayS: number,
+  echoRatio: number,
   yScale: number,
   uScale: number,
   opts: { durationS?: number; maxSamples?: number },
@@ -164,12 +172,15 @@ export function planStep(
     delayTicks = 2 ** Math.max(0, Math.ceil(Math.log2(delayS / h0S)));
     h0S = delayS / delayTicks;
   }
-  const maxStride = delayS > 0 ? delayTicks : Infinity;
-  let levels = schedule(ms, h0S, hMaxS, maxStride, durationS, maxSamples);
+  // A feedthrough in both C and P sends each jump round the loop again every T, scaled by
+  // |Dc Dp| (echoRatio); strictly proper parts smooth each pass by one derivative.
+  const echoes = echoRatio >= 1 ? Infinity : echoRatio > 0 ? Math.log(1e-10) / Math.log(echoRatio) : 0;
+  const longStepsFromS = delayS * Math.max(6, echoes);
+  let levels = schedule(ms, h0S, hMaxS, { ticks: delayTicks, longStepsFromS }, durationS, maxSamples);
   let coarsened = false;
   while (!levels) {
     if (delayS > 0 && delayTicks === 1) {
-      // One step per delay is the coarsest a delay line allows: run longer than asked, or cut.
+      // One step per delay is the coarsest the delay line allows at first: run longer than asked, or cut.
       const steps = Math.min(Math.ceil(durationS / h0S), 10 * maxSamples);
       levels = [{ stride: 1, steps }];
       if (steps * h0S < durationS) warnings.push(`step response cut at ${(steps * h0S).toPrecision(3)} s: the delay is very short next to the slowest mode`);
@@ -178,7 +189,7 @@ export function planStep(
     coarsened = true;
     h0S *= 2;
     if (delayS > 0) delayTicks /= 2;
-    levels = schedule(ms, h0S, Math.max(hMaxS, h0S), delayS > 0 ? delayTicks : Infinity, durationS, maxSamples);
+    levels = schedule(ms, h0S, Math.max(hMaxS, h0S), { ticks: delayTicks, longStepsFromS }, durationS, maxSamples);
   }
   if (coarsened && h0S * wFast > 4 * RESOLVE) warnings.push('step response: fastest modes are coarsely sampled; peak values may be slightly low');
   const total = levels.reduce((acc, l) => acc + l.steps * l.stride, 0);

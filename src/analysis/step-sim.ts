@@ -1,5 +1,6 @@
-import { expm, matMul } from './expm.js';
-import type { StepPlan } from './step-plan.js';
+import { discretise, doubleStep, type Discrete } from './step-discrete.js';
+import type { PlanLevel, StepPlan } from './step-plan.js';
+import { OUT_Y, implicitStepMap } from './step-sim-implicit.js';
 import type { LoopSystem } from './step-system.js';
 
 /**
@@ -53,66 +54,6 @@ function dot(a: Float64Array, b: Float64Array): number {
   return s;
 }
 
-/** The discretised step: Phi, Gr and (with a delay) G_0..G_3 (see the file comment). */
-interface Discrete {
-  phi: Float64Array;
-  gr: Float64Array;
-  g: Float64Array[];
-}
-
-/** Exact discretisation for step h by the exponential of the augmented matrix. */
-function discretise(sys: LoopSystem, h: number, delayed: boolean): Discrete {
-  const n = sys.n;
-  const extra = delayed ? 5 : 1;
-  const q = n + extra;
-  const big = new Float64Array(q * q);
-  for (let i = 0; i < n; i++) {
-    for (let j = 0; j < n; j++) big[i * q + j] = sys.a[i * n + j]! * h;
-    big[i * q + n] = sys.br[i]! * h;
-    if (delayed) big[i * q + n + 1] = sys.bd[i]! * h;
-  }
-  if (delayed) for (let j = 1; j <= 3; j++) big[(n + j) * q + n + j + 1] = j;
-  const e = expm(big, q);
-  const phi = new Float64Array(n * n);
-  const gr = new Float64Array(n);
-  const g = delayed ? [0, 1, 2, 3].map(() => new Float64Array(n)) : [];
-  for (let i = 0; i < n; i++) {
-    for (let j = 0; j < n; j++) phi[i * n + j] = e[i * q + j]!;
-    gr[i] = e[i * q + n]!;
-    for (let j = 0; j < g.length; j++) g[j]![i] = e[i * q + n + 1 + j]!;
-  }
-  return { phi, gr, g };
-}
-
-const BINOMIAL = [[1], [1, 1], [1, 2, 1], [1, 3, 3, 1]];
-
-/**
- * The same for step 2h from step h, by the semigroup property: Phi(2h) = Phi^2,
- * Gr(2h) = Phi Gr + Gr, and for the input ((v'+ i)/2)^j over the two halves i = 0, 1,
- * G_j(2h) = (Phi G_j + sum_i binom(j, i) G_i) / 2^j. This is the squaring phase of expm.
- */
-function doubleStep(d: Discrete, n: number): Discrete {
-  const phi = matMul(d.phi, d.phi, n);
-  const mulAdd = (v: Float64Array, w: Float64Array) => {
-    const r = new Float64Array(n);
-    for (let i = 0; i < n; i++) {
-      let s = w[i]!;
-      for (let j = 0; j < n; j++) s += d.phi[i * n + j]! * v[j]!;
-      r[i] = s;
-    }
-    return r;
-  };
-  const gr = mulAdd(d.gr, d.gr);
-  const g = d.g.map((gj, j) => {
-    const sum = new Float64Array(n);
-    for (let i = 0; i <= j; i++) for (let r = 0; r < n; r++) sum[r] += BINOMIAL[j]![i]! * d.g[i]![r]!;
-    const out = mulAdd(gj, sum);
-    for (let r = 0; r < n; r++) out[r] /= 2 ** j;
-    return out;
-  });
-  return { phi, gr, g };
-}
-
 /** Simulates the planned grid (levels of doubling steps, delay a whole number of base steps). */
 export function simulateStep(sys: LoopSystem, plan: StepPlan): StepTrace {
   const n = sys.n;
@@ -144,7 +85,21 @@ export function simulateStep(sys: LoopSystem, plan: StepPlan): StepTrace {
   let disc: Discrete | null = null;
   let stride = 1;
   let k = 0;
+  let z: Float64Array | null = null;
   for (const level of plan.levels) {
+    if (delayed && level.stride > m) {
+      // Steps longer than the delay: the affine implicit map, carrying z = [x; d; d'; u; u'].
+      if (!z) {
+        z = new Float64Array(n + 4);
+        z.set(x);
+        let cuAx = 0;
+        for (let i = 0; i < n; i++) cuAx += cuA[i]! * x[i]!;
+        z[n] = dPlus; z[n + 1] = dDotPlus; z[n + 2] = uPlus[k]!;
+        z[n + 3] = cuAx + cuBr + cuBd * dPlus + dud * dDotPlus;
+      }
+      k = implicitLevel(sys, plan, level, z, k, { ticks, tS, yMinus, yPlus, dyStart, dyEnd, uMinus, uPlus, duStart, duEnd });
+      continue;
+    }
     while (stride < level.stride) {
       if (disc) disc = doubleStep(disc, n);
       stride *= 2;
@@ -214,4 +169,32 @@ export function simulateStep(sys: LoopSystem, plan: StepPlan): StepTrace {
     }
   }
   return { tS, yMinus, yPlus, dyStart, dyEnd, uMinus, uPlus, duStart, duEnd };
+}
+
+/** Runs one level of steps longer than the delay from grid index k; updates z in place and returns the new index. */
+function implicitLevel(sys: LoopSystem, plan: StepPlan, level: PlanLevel, z: Float64Array, k: number, tr: StepTrace & { ticks: Float64Array }): number {
+  const n = sys.n;
+  const q = implicitStepMap(sys, plan.h0S * level.stride, plan.h0S * plan.delayTicks);
+  const rows = n + 7;
+  const cols = n + 5;
+  const out = new Float64Array(rows);
+  for (let step = 0; step < level.steps; step++, k++) {
+    for (let r = 0; r < rows; r++) {
+      const ro = r * cols;
+      let s = q[ro + n + 4]!;
+      for (let c = 0; c < n + 4; c++) s += q[ro + c]! * z[c]!;
+      out[r] = s;
+    }
+    const k1 = k + 1;
+    tr.duStart[k] = z[n + 3]!;
+    tr.dyStart[k] = out[n + OUT_Y + 2]!;
+    for (let c = 0; c < n + 4; c++) z[c] = out[c]!;
+    tr.ticks[k1] = tr.ticks[k]! + level.stride;
+    tr.tS[k1] = tr.ticks[k1]! * plan.h0S;
+    tr.uMinus[k1] = tr.uPlus[k1] = z[n + 2]!;
+    tr.duEnd[k] = z[n + 3]!;
+    tr.yMinus[k1] = tr.yPlus[k1] = out[n + OUT_Y]!;
+    tr.dyEnd[k] = out[n + OUT_Y + 1]!;
+  }
+  return k;
 }

@@ -32,7 +32,46 @@ export function buildLoopSystem(plant: TransferFunction, comp: TransferFunction)
   const c = realiseProper(comp.num, comp.den);
   const p = realiseProper(plant.num, plant.den);
   const delayS = plant.delayS + comp.delayS;
-  return delayS > 0 ? openAtDelay(c, p, delayS) : closeAlgebraically(c, p);
+  return balance(delayS > 0 ? openAtDelay(c, p, delayS) : closeAlgebraically(c, p));
+}
+
+/**
+ * Diagonal similarity x = D x' with powers of two (so exact in floating point) that makes
+ * each state's incoming and outgoing weights alike. Without it a high-gain plant realised
+ * as a cascade carries couplings like 5e12 beside poles of 0.5, and the exponential of
+ * such a matrix is accurate only relative to its largest entry.
+ */
+function balance(sys: LoopSystem): LoopSystem {
+  const n = sys.n;
+  const a = Float64Array.from(sys.a);
+  const br = Float64Array.from(sys.br), bd = Float64Array.from(sys.bd);
+  const cy = Float64Array.from(sys.cy), cu = Float64Array.from(sys.cu);
+  for (let sweep = 0; sweep < 60; sweep++) {
+    let changed = false;
+    for (let i = 0; i < n; i++) {
+      // Outgoing: what state i feeds (column i); incoming: what feeds it (row i).
+      let out = Math.abs(cy[i]!) + Math.abs(cu[i]!);
+      let inc = Math.abs(br[i]!) + Math.abs(bd[i]!);
+      for (let j = 0; j < n; j++) {
+        if (j === i) continue;
+        out += Math.abs(a[j * n + i]!);
+        inc += Math.abs(a[i * n + j]!);
+      }
+      if (out === 0 || inc === 0) continue;
+      // x_i = f x_i': column i times f, row i divided by f; pick f = 2^k with out f ~ inc / f.
+      const f = 2 ** Math.round(Math.log2(inc / out) / 2);
+      if (f === 1) continue;
+      changed = true;
+      for (let j = 0; j < n; j++) {
+        a[j * n + i] *= f;
+        a[i * n + j] /= f;
+      }
+      br[i] /= f; bd[i] /= f;
+      cy[i] *= f; cu[i] *= f;
+    }
+    if (!changed) break;
+  }
+  return { ...sys, a, br, bd, cy, cu };
 }
 
 function zeros(n: number): Float64Array {

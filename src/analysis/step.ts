@@ -62,7 +62,7 @@ function run(sys: LoopSystem, plant: TransferFunction, comp: TransferFunction, p
   const modes = loopModes(plant, comp, poles);
   const yScale = yF !== 0 ? Math.abs(yF) : Math.max(1e-300, ...modes.map((m) => (Number.isFinite(m.yAmp) ? m.yAmp : 0)));
   const uScale = Math.max(1e-300, Math.abs(sys.dur), ...modes.map((m) => (Number.isFinite(m.uAmp) ? m.uAmp : 0)));
-  const plan = planStep(modes, openLoopPoles(plant, comp), sys.delayS, yScale, uScale, opts);
+  const plan = planStep(modes, openLoopPoles(plant, comp), sys.delayS, Math.abs(sys.dud), yScale, uScale, opts);
   return { trace: simulateStep(sys, plan), plan };
 }
 
