@@ -65,9 +65,11 @@ export function designLeadBode(variants: readonly DesignVariant[], designIndex: 
   ws.add('uncompensated phase margin', pm0, 'deg');
   ws.add('target phase margin', s.pmDeg, 'deg');
   ws.add('allowance for the crossover shift', s.allowDeg, 'deg');
-  if (pm0 >= s.pmDeg) {
-    const blocks: Block[] = [{ kind: 'gain', k }];
-    const c: Candidate = { blocks, worstPmDeg: worstPmOver(variants, blocks) };
+  const gainOnly: Block[] = [{ kind: 'gain', k }];
+  const pmGain = worstPmOver(variants, gainOnly);
+  if (pmGain >= s.pmDeg) {
+    const blocks = gainOnly;
+    const c: Candidate = { blocks, worstPmDeg: pmGain };
     return { blocks, hand: c, refined: c, worksheet: ws.steps, feasible: true, message: 'the gain alone gives the target phase margin: no lead needed' };
   }
   const phi = s.pmDeg - pm0 + s.allowDeg;
@@ -104,7 +106,7 @@ export function designLeadBode(variants: readonly DesignVariant[], designIndex: 
     const why = v.shape.delayS > 0 ? ' (the delay takes the phase that more lead would add, as the crossover moves up)' : '';
     return {
       blocks: refined.blocks, hand: handCand, refined, worksheet: ws.steps, feasible: false,
-      message: `a phase margin of ${formatNumber(s.pmDeg)} deg cannot be reached with up to ${r.n} lead stage(s) at this gain${why}; the best achievable is ${formatNumber(r.best.pmDeg, 3)} deg`,
+      message: `a phase margin of ${formatNumber(s.pmDeg)} deg cannot be reached with up to ${r.tried} lead stage(s) at this gain${why}; the best achievable is ${formatNumber(r.best.pmDeg, 3)} deg`,
     };
   }
   const msg = r.best.exact ? `lead with ${r.n} stage(s); refined to the target phase margin` : `lead with ${r.n} stage(s); margin ${formatNumber(r.best.pmDeg, 3)} deg (at least the target)`;
@@ -112,8 +114,8 @@ export function designLeadBode(variants: readonly DesignVariant[], designIndex: 
 }
 
 /** Refines the added phase; adds stages (unless forced) while the target stays out of reach. */
-function refineLead(variants: readonly DesignVariant[], kf: DesignVariant['shape'], k: number, n0: number, s: LeadSettings): { n: number; best: RefineResult } {
-  let best: { n: number; best: RefineResult } | null = null;
+function refineLead(variants: readonly DesignVariant[], kf: DesignVariant['shape'], k: number, n0: number, s: LeadSettings): { n: number; tried: number; best: RefineResult } {
+  let best: { n: number; tried: number; best: RefineResult } | null = null;
   const last = s.stages === null ? Math.min(MAX_STAGES, n0 + EXTRA_STAGES) : n0;
   for (let n = n0; n <= last; n++) {
     const top = Math.min(n * s.maxStagePhaseDeg, n * 85);
@@ -122,8 +124,8 @@ function refineLead(variants: readonly DesignVariant[], kf: DesignVariant['shape
       return b === null ? -Infinity : worstPmOver(variants, b.blocks);
     };
     const r = refineParameter(pmOf, gridBetween(0.25, top, 48), s.pmDeg, 'first');
-    if (best === null || r.pmDeg > best.best.pmDeg || (r.reached && !best.best.reached)) best = { n, best: r };
-    if (r.reached) return { n, best: r };
+    if (best === null || r.pmDeg > best.best.pmDeg || (r.reached && !best.best.reached)) best = { n, tried: last, best: r };
+    if (r.reached) return { n, tried: last, best: r };
   }
   return best!;
 }

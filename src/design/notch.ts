@@ -11,6 +11,8 @@ export interface NotchSettings {
   readonly zetaMax: number;
   /** Phase margin to keep after the notches; null: no limit (margins are still reported). */
   readonly pmDeg: number | null;
+  /** Gain margin wanted at the modes (dB): each notch is at least deep enough to put |L| this far below 0 dB. */
+  readonly gmDb: number;
 }
 
 /** A lightly damped pole pair of one variant's plant. */
@@ -51,9 +53,13 @@ function notchPoleDamping(spread: number): number {
   return Math.min(1, Math.max(0.25, 3 * halfWidth));
 }
 
-/** A notch at wn with pole damping zp whose zeros sit at the mode's damping (depth clamped to 10..40 dB). */
-function notchFor(wnRadS: number, zp: number, zetaMode: number): Block {
-  const depthDb = Math.min(40, Math.max(10, 20 * Math.log10(zp / zetaMode)));
+/**
+ * A notch at wn with pole damping zp, deep enough both to flatten the mode (zeros at
+ * the mode's damping) and to leave |L| at least gmDb below 0 dB there (peakDb is |L|
+ * at the mode without it); clamped to 10..40 dB.
+ */
+function notchFor(wnRadS: number, zp: number, zetaMode: number, peakDb: number, gmDb: number): Block {
+  const depthDb = Math.min(40, Math.max(10, 20 * Math.log10(zp / zetaMode), peakDb + gmDb));
   return { kind: 'notch', centerRadS: wnRadS, depthDb, q: 1 / (2 * zp) };
 }
 
@@ -68,14 +74,15 @@ export function designNotch(variants: readonly DesignVariant[], designIndex: num
   const ws = new Worksheet();
   const v = variants[designIndex]!;
   ws.section('resonances of the plant (poles with low damping)');
+  // The lowest crossover: a resonance peak that pokes above 0 dB adds crossovers of its own.
   const cross = magnitudeCrossingsRadS(v.shape, 1);
-  const wc = cross.length > 0 ? cross[cross.length - 1]! : 0;
-  ws.add(`present crossover (variant ${v.name})`, wc > 0 ? wc : 'none', wc > 0 ? 'rad/s' : '');
+  const wc = cross.length > 0 ? cross[0]! : 0;
+  ws.add(`present (lowest) crossover (variant ${v.name})`, wc > 0 ? wc : 'none', wc > 0 ? 'rad/s' : '');
   const res = findResonances(variants, s.zetaMax);
   if (res.length === 0) {
     return { blocks: [], hand: null, refined: null, worksheet: ws.steps, feasible: false, message: `no plant pole has damping below ${formatNumber(s.zetaMax)}: there is no resonance to notch` };
   }
-  const notches: { block: Block; zeta: number; zp: number }[] = [];
+  const notches: { block: Block; zeta: number; zp: number; peakDb: number }[] = [];
   const skipped: string[] = [];
   for (const c of clusters(res)) {
     const lo = c[0]!.wnRadS;
@@ -86,20 +93,20 @@ export function designNotch(variants: readonly DesignVariant[], designIndex: num
     ws.add('natural frequency (lowest variant)', lo, 'rad/s');
     ws.add('natural frequency (highest variant)', hi, 'rad/s');
     ws.add('smallest damping', zeta);
-    const peak = Math.max(...variants.map((x) => shapeMagnitude(x.shape, centre)));
-    ws.add('|L| at the mode, present compensator', 20 * Math.log10(peak), 'dB');
+    const peakDb = 20 * Math.log10(Math.max(...c.map((r) => shapeMagnitude(variants.find((x) => x.name === r.variant)!.shape, r.wnRadS))));
+    ws.add('|L| at the mode, present compensator', peakDb, 'dB');
     if (centre <= 1.5 * wc) {
       ws.add('skipped: at or below 1.5 x crossover', null);
       skipped.push(formatNumber(centre));
       continue;
     }
     const zp = notchPoleDamping(hi / lo);
-    const block = notchFor(centre, zp, zeta);
-    notches.push({ block, zeta, zp });
+    const block = notchFor(centre, zp, zeta, peakDb, s.gmDb);
+    notches.push({ block, zeta, zp, peakDb });
     if (block.kind === 'notch') {
       ws.add('notch centre', block.centerRadS, 'rad/s');
       ws.add('notch pole damping (width)', zp);
-      ws.add('notch depth 20 log10(width / mode damping)', block.depthDb, 'dB');
+      ws.add('depth: largest of 20 log10(width / mode damping) and |L| + wanted GM', block.depthDb, 'dB');
       ws.add('notch q = 1/(2 damping)', block.q);
     }
   }
@@ -114,7 +121,7 @@ export function designNotch(variants: readonly DesignVariant[], designIndex: num
   const hand = { blocks, worstPmDeg: pm };
   if (s.pmDeg !== null && pm < s.pmDeg && pmBefore >= s.pmDeg) {
     // Narrow every notch by the same factor until the margin holds again.
-    const build = (f: number) => notches.map((n) => notchFor(blocks0Centre(n.block), n.zp * f, n.zeta));
+    const build = (f: number) => notches.map((n) => notchFor(blocks0Centre(n.block), n.zp * f, n.zeta, n.peakDb, s.gmDb));
     const r = refineParameter((f) => worstPmOver(variants, build(f)), gridBetween(0.1, 1, 30), s.pmDeg, 'last');
     blocks = build(r.x);
     pm = r.pmDeg;

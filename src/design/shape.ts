@@ -53,7 +53,21 @@ export function shapeMagnitude(f: Factored, wRadS: number): number {
 
 /** Continuous phase of G(jw) in degrees (delay included; never wrapped). */
 export function shapePhaseDeg(f: Factored, wRadS: number): number {
-  return factoredAt(f, wRadS, new Float64Array(4))[1]! * RAD;
+  return factoredAt(f, wRadS, new Float64Array(4))[1]! * RAD - bodeOffsetDeg(f);
+}
+
+/**
+ * The multiple of 360 deg that makes the continuous phase read as a Bode plot does:
+ * -90 deg per net integrator at low frequency (a right-half-plane root starts its
+ * factor angle at 180 deg, which would otherwise shift the whole curve by 360).
+ */
+export function bodeOffsetDeg(f: Factored): number {
+  const mags = [...f.zeros, ...f.poles].map((r) => Math.hypot(r.re, r.im)).filter((m) => m > 0 && Number.isFinite(m));
+  const wLow = (mags.length === 0 ? 1 : Math.min(...mags)) * 1e-6;
+  const atOrigin = (rs: Factored['poles']) => rs.filter((r) => r.re === 0 && r.im === 0).length;
+  const base = -90 * (atOrigin(f.poles) - atOrigin(f.zeros));
+  const raw = factoredAt({ ...f, delayS: 0 }, wLow, new Float64Array(4))[1]! * RAD;
+  return 360 * Math.round((raw - base) / 360);
 }
 
 /** A search range and grid for a shape, widened to include the given frequencies. */
@@ -97,6 +111,6 @@ export function magnitudeCrossingsRadS(f: Factored, level: number, extraRadS: re
 /** Frequencies where the continuous phase of G(jw) equals `phaseDeg`, ascending. */
 export function phaseCrossingsRadS(f: Factored, phaseDeg: number, extraRadS: readonly number[] = []): number[] {
   const buf = new Float64Array(4);
-  const target = phaseDeg / RAD;
+  const target = (phaseDeg + bodeOffsetDeg(f)) / RAD;
   return signChangesRadS((w) => factoredAt(f, w, buf)[1]! - target, shapeGridRadS(f, extraRadS));
 }

@@ -54,6 +54,12 @@ function pmFromRequirements(reqs: readonly Requirement[]): number | null {
   return v.length === 0 ? null : Math.max(...v);
 }
 
+/** Largest `gm >=` limit among requirements (dB), or null. */
+export function gmFromRequirements(reqs: readonly Requirement[]): number | null {
+  const v = reqs.filter((r) => r.metric === 'gm' && r.op === '>=').map((r) => r.value);
+  return v.length === 0 ? null : Math.max(...v);
+}
+
 /**
  * A crossover inside the loop's `fc` limits: 10 % above a lower limit, 10 % below an
  * upper one, the geometric middle of both; null without any.
@@ -94,9 +100,19 @@ export function needPm(t: ResolvedTargets, method: TuneMethod): number {
   return t.pmDeg;
 }
 
-/** Blocks a new lead/lag/PID design keeps: integrators and filters stay, gains and dynamic compensation are replaced. */
-export function isKeptByRedesign(b: Block): boolean {
-  return b.kind === 'integrator' || b.kind === 'notch' || b.kind === 'lowpass1' || b.kind === 'lowpass2';
+/**
+ * Which existing blocks a design keeps. Lead, lag and lead-lag keep integral action
+ * (integrator, PI) and filters (notch, low-pass) and replace gains and dynamic blocks;
+ * PID replaces PI as well, since it brings its own integral action; notch replaces the
+ * existing notches (it proposes one for every resonance); lowpass keeps everything.
+ */
+export function keptByRedesign(method: TuneMethod): (b: Block) => boolean {
+  switch (method) {
+    case 'lowpass': return () => true;
+    case 'notch': return (b) => b.kind !== 'notch';
+    default:
+      return (b) => b.kind === 'integrator' || b.kind === 'notch' || b.kind === 'lowpass1' || b.kind === 'lowpass2' || (b.kind === 'pi' && method !== 'pid');
+  }
 }
 
 /** Checks option values (positive, in range); throws UserError naming the option. */

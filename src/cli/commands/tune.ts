@@ -44,6 +44,8 @@ const SPEC: CommandSpec = {
     '  --order 1|2            low-pass order (default 2)',
     '  --zeta-max Z           damping below which a plant pole is a resonance (default 0.15)',
     '  --apply -m NOTE        save the proposal as a revision (only when it meets every requirement)',
+    '  --even-if-failing      with --apply: save a stable proposal that still misses requirements',
+    '                         (a step of a longer retune); an unstable one is never saved',
     '  store-free: --plant EXPR (repeat, NAME=EXPR names a variant), --comp EXPR, --spec REQ (repeat);',
     '              bare frequencies in rad/s',
   ].join('\n'),
@@ -65,6 +67,7 @@ const SPEC: CommandSpec = {
     order: { type: 'string' },
     'zeta-max': { type: 'string' },
     apply: { type: 'boolean' },
+    'even-if-failing': { type: 'boolean' },
     ...NOTE,
     ...JSON_OPT,
   },
@@ -158,6 +161,7 @@ export async function run(args: string[], ctx: CommandContext): Promise<number> 
   const m = method(methodText);
   const change = changeOptions(p);
   if (p.flag('apply') && (change.note === undefined || change.note.trim() === '')) throw new UserError('tune --apply needs -m NOTE saying why the compensator changes');
+  if (p.flag('even-if-failing') && !p.flag('apply')) throw new UserError('--even-if-failing only goes with --apply');
   return withMachine(ctx, change.author, async (machine) => {
     const unit = machine.settings().unit;
     const loop = await readStoredLoop(machine, ref);
@@ -169,9 +173,11 @@ export async function run(args: string[], ctx: CommandContext): Promise<number> 
       const hint = proposal.ok ? [`not applied: add --apply -m NOTE to save it (or: loopledger comp set ${ref} ${blockWords(proposal.blocks, unit)})`] : [];
       return show(ctx, p, proposal, title, unit, { applied: null, warnings: loop.warnings }, [...warnLines, ...hint]);
     }
-    if (!proposal.ok) {
+    const stable = proposal.blocks.length > 0 && proposal.perVariant.every((v) => v.metrics !== null && v.metrics.stable);
+    if (!proposal.ok && !(stable && p.flag('even-if-failing'))) {
       show(ctx, p, proposal, title, unit, { applied: null, warnings: loop.warnings }, warnLines);
-      throw new UserError(`tune --apply: not applied, the proposal does not meet every requirement on every variant (${proposal.message})`, 1);
+      const why = stable ? 'it misses requirements (add --even-if-failing to save it as a step anyway)' : 'it is not stable on every variant, or there is nothing to save';
+      throw new UserError(`tune --apply: not applied, ${why}`, 1);
     }
     const note = [change.note!, '', `tune ${m}: ${proposal.message}`, ...formatWorksheet(proposal.worksheet, unit)].join('\n');
     const outcome = await machine.setCompensator(ref, proposal.blocks, { note, base: loop.revision, ...(change.author === undefined ? {} : { author: change.author }) });
