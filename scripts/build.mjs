@@ -1,7 +1,11 @@
 // Bundles the CLI into dist/ so a cold start does not pay for module resolution
 // of hundreds of files (see shared notes on start-up cost). mathjs and ink stay
 // in their own chunks, loaded only by the commands that need them.
+import { rmSync } from 'node:fs';
 import { build } from 'esbuild';
+
+// Chunk names carry content hashes: clear old ones so dist/ holds only this build.
+rmSync('dist', { recursive: true, force: true });
 
 await build({
   entryPoints: { main: 'src/cli/main.ts' },

@@ -84,7 +84,7 @@ export async function main(argv: string[]): Promise<number> {
       ctx.out(helpText());
       return 0;
     }
-    const entry = COMMANDS[word];
+    const entry = Object.hasOwn(COMMANDS, word) ? COMMANDS[word] : undefined;
     if (!entry) throw new UserError(`unknown command '${word}'; run 'loopledger help' for the list`);
     return await (await entry.load()).run(args, ctx);
   } catch (e) {

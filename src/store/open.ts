@@ -1,3 +1,4 @@
+import path from 'node:path';
 import fs from 'node:fs';
 import Database from 'better-sqlite3';
 import { UserError } from '../model/errors.js';
@@ -111,6 +112,8 @@ export function openStore(file: string, opts: OpenStoreOptions = {}): Store {
       refuse(`was written by a newer loopledger (store schema ${p.version}, this version knows up to ${latest}); upgrade loopledger to open it`);
     }
   }
+  const dir = path.dirname(path.resolve(file));
+  if (!fs.existsSync(dir)) throw new UserError(`cannot create ${file}: the folder ${dir} does not exist; create it first or choose another --store path`);
   const db = new Database(file, { timeout: 5000 });
   try {
     db.pragma('journal_mode = WAL');
