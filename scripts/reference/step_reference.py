@@ -58,6 +58,12 @@ CASES = [
      "cn": [1.5, 2.25], "cd": [1.0, 0.0], "delay": 0.2, "t_end": 15.0},
     {"name": "delay with feedthrough in C and P", "pn": [1.0, 3.0], "pd": [1.0, 1.0],
      "cn": [0.5, 1.0], "cd": [1.0, 4.0], "delay": 0.1, "t_end": 8.0},
+    {"name": "order 8 with a delay far shorter than the response", "pn": [5.0e11],
+     "pd": list(np.poly([-0.5, -5.0, -50.0, -400.0, -2000.0]).real),
+     "cn": list(np.polymul([1.0, 0.6], [1.0, 8.0])), "cd": list(np.polymul([1.0, 0.0], [1.0, 120.0, 1.0e4])),
+     "delay": 0.0005, "t_end": 6.0},
+    {"name": "slow PI loop with a short delay", "pn": [1.0], "pd": [0.05, 1.0],
+     "cn": [0.2, 1.0], "cd": [1.0, 0.0], "delay": 0.002, "t_end": 20.0},
     {"name": "resonant plant with delay under PI", "pn": [100.0], "pd": [1.0, 2.0, 100.0],
      "cn": [0.1, 0.5], "cd": [1.0, 0.0], "delay": 0.05, "t_end": 15.0},
 ]
