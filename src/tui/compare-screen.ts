@@ -1,4 +1,5 @@
 import { toDisplayFrequency, formatNumber, formatTime, type FreqUnit } from '../model/units.js';
+import { blockText } from './block-lines.js';
 import { bodeSketch } from './bode-sketch.js';
 import type { DashState } from './dash-state.js';
 import type { ScreenLines } from './loop-screen.js';
@@ -49,6 +50,21 @@ function deltaLines(deltas: readonly DeltaVM[], c: CompareVM, unit: FreqUnit, wi
   ];
 }
 
+/** The two compensators side by side, block by block; `~` marks a row that differs. */
+function blockTable(c: CompareVM, unit: FreqUnit, width: number): StyledLine[] {
+  const a = c.blocksA.map((b) => blockText(b, unit));
+  const b = c.blocksB.map((x) => blockText(x, unit));
+  const col = Math.max(10, Math.floor((width - 6) / 2));
+  const rows: StyledLine[] = [{ text: truncate(`    ${fit('compensator r' + c.a.revision, col)}  ${'r' + c.b.revision}`, width), tone: 'dim' }];
+  for (let i = 0; i < Math.max(a.length, b.length, 1); i++) {
+    const x = a[i] ?? (i === 0 && a.length === 0 ? '(unity)' : '');
+    const y = b[i] ?? (i === 0 && b.length === 0 ? '(unity)' : '');
+    const differs = x !== y;
+    rows.push({ text: truncate(`${differs ? ' ~ ' : '   '} ${fit(x, col)}  ${y}`, width), tone: differs ? 'info' : 'plain' });
+  }
+  return rows;
+}
+
 /**
  * Two revisions compared: status then and now, what changed (compensator,
  * requirements, plants: old -> new), the metric table of the chosen variant,
@@ -63,9 +79,10 @@ export function compareScreen(c: CompareVM, s: DashState, unit: FreqUnit, width:
       tone: c.statusB,
     },
   ];
+  const listed = c.changes.filter((ch) => ch.what !== 'compensator');
   const changes: StyledLine[] = c.changes.length === 0
     ? [{ text: 'no change to plant, requirements or compensator', tone: 'dim' }]
-    : c.changes.flatMap((ch) => {
+    : listed.flatMap((ch) => {
         const what = `${ch.what}${ch.key ? ' ' + cleanText(ch.key) : ''}`;
         const from = ch.from === null ? '(none)' : cleanText(ch.from);
         const to = ch.to === null ? '(none)' : cleanText(ch.to);
@@ -84,6 +101,7 @@ export function compareScreen(c: CompareVM, s: DashState, unit: FreqUnit, width:
     ? bodeSketch(bodeB, { width, height: 14, unit, colour, legend: [`r${c.b.revision}`, `r${c.a.revision}`] }, bodeA)
     : ['no frequency response to compare'];
   const content: StyledLine[] = [
+    ...blockTable(c, unit, width),
     ...changes,
     { text: '' },
     ...deltaLines(c.deltas.filter((d) => d.variant === variant), c, unit, width),

@@ -44,11 +44,16 @@ export class EngineSource implements DashSource {
     const head = d.history[d.history.length - 1] ?? d.info.head;
     const { bode, step } = loopCurves(this.m, loopId, d.state.compensator, curveVariantsOf(d.result));
     const error = d.result.variants.find((v) => v.error !== undefined)?.error;
+    const names = d.result.variants.map((v) => v.variant);
+    const order = (v: string) => (names.includes(v) ? names.indexOf(v) : names.length);
     return {
       id: d.info.ref, axis: d.info.axis, name: d.info.name, unit: this.m.settings().unit,
       revision: d.result.revision, author: head.author, at: head.time, note: head.note,
       status: d.result.status, ...(error !== undefined ? { error } : {}),
-      plants: Object.entries(d.state.plants).map(([variant, p]) => ({ variant, text: p.text })),
+      // Default variant first, as the check lists them.
+      plants: Object.entries(d.state.plants)
+        .map(([variant, p]) => ({ variant, text: p.text }))
+        .sort((a, b) => order(a.variant) - order(b.variant)),
       innerId: d.info.inner,
       requirements: d.state.requirements,
       variants: variantsOf(d.result),
@@ -75,6 +80,8 @@ export class EngineSource implements DashSource {
       a: revisionOf(diff.from, diff.statusFrom), b: revisionOf(diff.to, diff.statusTo),
       statusA: diff.statusFrom, statusB: diff.statusTo,
       changes: diff.changes, deltas: diff.metrics,
+      blocksA: this.m.revision(loopId, revA).state.compensator.blocks,
+      blocksB: this.m.revision(loopId, revB).state.compensator.blocks,
       bodeA: curves(revA, 'from'), bodeB: curves(revB, 'to'),
     };
   }

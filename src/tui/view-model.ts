@@ -169,6 +169,9 @@ export interface CompareVM {
   readonly statusA: LoopStatus;
   readonly statusB: LoopStatus;
   readonly changes: readonly ChangeVM[];
+  /** The compensator at each revision, for the side-by-side block table. */
+  readonly blocksA: readonly Block[];
+  readonly blocksB: readonly Block[];
   readonly deltas: readonly DeltaVM[];
   /** Per variant, same order in both. */
   readonly bodeA: readonly BodeVM[];
