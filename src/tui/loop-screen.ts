@@ -87,13 +87,15 @@ export function loopScreen(d: LoopDetailVM, s: DashState, unit: FreqUnit, width:
     content = pane === 0 ? checksPane(d, unit, width) : pane === 1 ? bodePane(d, s, unit, width, room, colour) : stepPane(d, s, unit, width, room, colour);
   } else if (arrangement === 'stacked') {
     head.push({ text: '' });
-    content = [...checksPane(d, unit, width), { text: '' }, ...bodePane(d, s, unit, width, 18, colour), { text: '' }, ...stepPane(d, s, unit, width, 12, colour)];
+    content = [...checksPane(d, unit, width), { text: '' }, ...bodePane(d, s, unit, width, 20, colour), { text: '' }, ...stepPane(d, s, unit, width, 14, colour)];
   } else {
     head.push({ text: '' });
     const left = Math.floor((width - 3) / 2);
     const right = width - 3 - left;
     const l = checksPane(d, unit, left);
-    const r = [...bodePane(d, s, unit, right, 18, false), { text: '' }, ...stepPane(d, s, unit, right, 12, false)];
+    // The sketches share the height: the Bode sketch carries more (two charts), the step the rest.
+    const bodeRows = Math.max(16, Math.floor((room - 1) * 0.6));
+    const r = [...bodePane(d, s, unit, right, bodeRows, false), { text: '' }, ...stepPane(d, s, unit, right, Math.max(10, room - 1 - bodeRows), false)];
     content = Array.from({ length: Math.max(l.length, r.length) }, (_, i) => ({
       text: fit(l[i]?.text ?? '', left) + ' | ' + (r[i]?.text ?? ''),
     }));
