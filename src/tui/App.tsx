@@ -33,7 +33,8 @@ const errorText = (e: unknown) => (e instanceof Error ? e.message : String(e));
 export function App({ source, colour, pollMs = 1000, now = Date.now }: AppProps) {
   const { exit } = useApp();
   const { isRawModeSupported } = useStdin();
-  const size = frameSize(...Object.values(useWindowSize()) as [number | undefined, number | undefined]);
+  const win = useWindowSize();
+  const size = frameSize(win.columns, win.rows);
   const [state, setState] = useState<DashState>(initialState);
   const stateRef = useRef(state);
   const update = useCallback((f: (s: DashState) => DashState) => {

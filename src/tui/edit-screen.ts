@@ -11,6 +11,9 @@ import { marker, styled, type StyledLine } from './styled.js';
 import { fit, truncate } from './text.js';
 import type { WhatIfVM } from './view-model.js';
 
+const BLOCK_HINT = 'e.g. gain:2 int pi:5Hz lead:30Hz/150Hz lag:2Hz/0.2Hz notch:420Hz,depth=20dB,q=2 lp1:300Hz';
+const REQUIREMENT_HINT = 'e.g. pm>=45 gm>=6dB fc>=80Hz bw>=20Hz ms<=1.7 os<=10% ts<=50ms kv>=1000';
+
 /** The live recompute of the draft as the edit screen knows it. */
 export interface LiveResult {
   /** The newest answer, for the draft as it is now (null while it is computed). */
@@ -66,7 +69,7 @@ export function editScreen(
   const head: StyledLine[] = [
     { text: truncate(`Edit ${cleanText(loopId)}: draft on r${e.baseRevision}${e.dirty ? ', changed, not saved' : ''}`, width), tone: 'title' },
     {
-      text: truncate(typing === 'field' ? 'type the text; Enter keeps it, Esc undoes it' : 'blocks: gain:2 int pi:5Hz lead:30Hz/150Hz lag:2Hz/0.2Hz notch:420Hz,depth=20dB,q=2 lp1:300Hz', width),
+      text: truncate(`${typing === 'field' ? 'Enter keeps, Esc undoes. ' : ''}${e.pane === 'blocks' ? BLOCK_HINT : REQUIREMENT_HINT}`, width),
       tone: 'dim',
     },
   ];
