@@ -12,7 +12,7 @@ import { Worksheet } from './worksheet.js';
 /** Settings of the lead-lag design. */
 export interface LeadLagSettings {
   readonly pmDeg: number;
-  /** Chosen crossover; null takes the phase crossover of K·P (where its phase is -180 deg). */
+  /** Crossover (chosen, or from the loop's fc requirement); null takes the phase crossover of K·P (where its phase is -180 deg). */
   readonly fcRadS: number | null;
   /** Allowance for the lag's own phase at the crossover (deg). */
   readonly allowDeg: number;
@@ -27,8 +27,8 @@ export interface LeadLagSettings {
 /**
  * Lead-lag: the lag supplies the low-frequency gain the error constant asks for,
  * the lead the phase at the crossover. Gain K from the error constant; the crossover
- * is the chosen fc or, as in the classic lag-lead procedure, the frequency where the
- * phase of K·P is -180 deg; leads centred there add target - present + allowance;
+ * is the given one (--fc or the loop's fc requirement) or, as in the classic lag-lead
+ * procedure, the frequency where the phase of K·P is -180 deg; leads centred there add target - present + allowance;
  * the lag (zero a decade below) removes the magnitude left over at the crossover, or,
  * when the loop is short of gain there, the gain is raised instead. The lead's phase
  * is then refined numerically until the worst variant's margin equals the target.
@@ -51,7 +51,7 @@ export function designLeadLag(variants: readonly DesignVariant[], designIndex: n
       wc = cross[cross.length - 1]!;
       ws.add('crossover: that of K·P (its phase never reaches -180 deg)', wc, 'rad/s');
     }
-  } else ws.add('chosen crossover fc', wc, 'rad/s');
+  } else ws.add('crossover (chosen, or from the fc requirement)', wc, 'rad/s');
   const w = wc;
   const pm0 = 180 + shapePhaseDeg(kf, w);
   ws.add('phase of K·P at the crossover + 180', pm0, 'deg');
