@@ -1,5 +1,6 @@
 import type { StepMetrics } from '../model/metrics.js';
 import { cubicAt, cubicFirstUpCrossing, cubicLastCrossing, cubicRange, hermiteCubic, type Cubic } from './step-cubic.js';
+import { STEP_ERR_BUDGET } from './step-plan.js';
 import type { StepTrace } from './step-sim.js';
 
 /**
@@ -91,8 +92,8 @@ export function traceMetrics(tr: StepTrace, yF: number): TraceMetrics {
   return {
     metrics: {
       overshootPct: overshoot,
-      // A dip of a billionth of y_f is rounding, not undershoot.
-      undershootPct: zMin < -1e-9 ? -100 * zMin : 0,
+      // A dip within the simulation's error budget is not a finding.
+      undershootPct: zMin < -STEP_ERR_BUDGET ? -100 * zMin : 0,
       riseTimeS: t10 !== null && t90 !== null ? t90 - t10 : null,
       settlingTimeS: settling,
       peakTimeS: overshoot > 0 ? tMax : null,
