@@ -2,7 +2,7 @@ import { DEMO_STORE, ensureDemo } from '../../engine/demo.js';
 import { parseCommand, type CommandSpec } from '../args.js';
 import type { CommandContext } from '../context.js';
 import { requireDirectory } from '../store.js';
-import { run as check } from './check.js';
+import { run as dash } from './dash.js';
 
 const SPEC: CommandSpec = {
   name: 'demo',
@@ -11,7 +11,7 @@ const SPEC: CommandSpec = {
     '',
     `Creates the demo machine in ./${DEMO_STORE} (or PATH), or reuses the store that is already there:`,
     'a glass edge-finishing cell with five axes and twelve loops, several revisions each, some failing.',
-    '  --open   show the overview right away',
+    '  --open   open the dashboard on it right away (a plain overview when not in a terminal)',
   ].join('\n'),
   options: { open: { type: 'boolean' } },
   positionals: { min: 0, max: 0, what: '' },
@@ -33,12 +33,11 @@ export async function run(args: string[], ctx: CommandContext): Promise<number> 
   } finally {
     m.close();
   }
-  const store = /^[\w./-]+$/.test(path) ? path : `'${path.replace(/'/g, `'\\''`)}'`;
-  ctx.out(['next, for example:', ...['check', 'loop show Z/vel', 'log Y/vel', 'diff R/vel 3 5'].map((c) => `  loopledger --store ${store} ${c}`)].join('\n'));
   if (p.flag('open')) {
-    ctx.out('');
-    // The overview's own exit status says "some loops fail"; for the demo that is the point, not an error.
-    await check([], { ...ctx, storePath: path });
+    // In a terminal this is the dashboard; piped, the dashboard prints the overview once and exits 0.
+    return dash([], { ...ctx, storePath: path });
   }
+  const store = /^[\w./-]+$/.test(path) ? path : `'${path.replace(/'/g, `'\\''`)}'`;
+  ctx.out(['next, for example:', ...['', 'check', 'loop show Z/vel', 'log Y/vel', 'tune Z/vel lead'].map((c) => `  loopledger --store ${store} ${c}`.trimEnd())].join('\n'));
   return 0;
 }
