@@ -22,6 +22,8 @@ export interface StateSpace {
   readonly b: Float64Array;
   readonly c: Float64Array;
   readonly d: number;
+  /** The roots of the denominator the model was built from (its poles, with multiplicity). */
+  readonly poles: readonly Complex[];
 }
 
 interface Section {
@@ -128,9 +130,10 @@ export function realiseProper(num: Poly, den: Poly): StateSpace {
   const dt = polyTrim(den);
   if (nt.length > dt.length) throw new Error('state-space: improper rational function');
   const lead = dt[dt.length - 1]!;
-  if (nt.length === 1 && nt[0] === 0) return { n: 0, a: new Float64Array(0), b: new Float64Array(0), c: new Float64Array(0), d: 0 };
+  if (nt.length === 1 && nt[0] === 0) return { n: 0, a: new Float64Array(0), b: new Float64Array(0), c: new Float64Array(0), d: 0, poles: [] };
   const gain = nt[nt.length - 1]! / lead;
-  const blocks = pairSections(polyRoots(dt), polyRoots(nt)).map(realiseSection);
+  const poles = polyRoots(dt);
+  const blocks = pairSections(poles, polyRoots(nt)).map(realiseSection);
   const n = blocks.reduce((acc, bl) => acc + bl.n, 0);
   const a = new Float64Array(n * n);
   const b = new Float64Array(n);
@@ -152,5 +155,5 @@ export function realiseProper(num: Poly, den: Poly): StateSpace {
     off += bl.n;
   }
   for (let j = 0; j < n; j++) row[j] = row[j]! * gain;
-  return { n, a, b, c: row, d: dd * gain };
+  return { n, a, b, c: row, d: dd * gain, poles };
 }

@@ -26,30 +26,36 @@ export function cubicCriticalPoints(c: Cubic, out: Float64Array): number {
   const a = 3 * c[3];
   const b = 2 * c[2];
   const k = c[1];
-  let cnt = 0;
-  const push = (s: number) => {
-    if (s > 0 && s < 1) out[cnt++] = s;
-  };
   const scale = Math.abs(a) + Math.abs(b) + Math.abs(k);
   if (scale === 0) return 0;
+  let r1: number, r2: number;
   if (Math.abs(a) <= 1e-14 * scale) {
-    if (b !== 0) push(-k / b);
-    return cnt;
+    if (b === 0) return 0;
+    r1 = r2 = -k / b;
+  } else {
+    const disc = b * b - 4 * a * k;
+    if (disc < 0) return 0;
+    // Stable quadratic roots: q = -(b + sign(b) sqrt(disc)) / 2, roots q/a and k/q.
+    const q = -0.5 * (b + (b >= 0 ? 1 : -1) * Math.sqrt(disc));
+    r1 = q / a;
+    r2 = q !== 0 ? k / q : r1;
+    if (r1 > r2) { const t = r1; r1 = r2; r2 = t; }
   }
-  const disc = b * b - 4 * a * k;
-  if (disc < 0) return 0;
-  // Stable quadratic roots: q = -(b + sign(b) sqrt(disc)) / 2, roots q/a and k/q.
-  const q = -0.5 * (b + (b >= 0 ? 1 : -1) * Math.sqrt(disc));
-  const r1 = q / a;
-  const r2 = q !== 0 ? k / q : r1;
-  if (r1 <= r2) { push(r1); push(r2); } else { push(r2); push(r1); }
+  let cnt = 0;
+  if (r1 > 0 && r1 < 1) out[cnt++] = r1;
+  if (r2 !== r1 && r2 > 0 && r2 < 1) out[cnt++] = r2;
   return cnt;
 }
 
 const scratch = new Float64Array(2);
 
-/** Max and min of p over [0, 1] with their places. */
-export function cubicRange(c: Cubic): { min: number; sMin: number; max: number; sMax: number } {
+/** Extremes of a piece: written into one shared object, as the scans call this for every step. */
+export interface CubicRange { min: number; sMin: number; max: number; sMax: number }
+
+const range: CubicRange = { min: 0, sMin: 0, max: 0, sMax: 0 };
+
+/** Max and min of p over [0, 1] with their places (the returned object is reused by the next call). */
+export function cubicRange(c: Cubic): CubicRange {
   let min = c[0], sMin = 0, max = c[0], sMax = 0;
   const end = c[0] + c[1] + c[2] + c[3];
   if (end > max) { max = end; sMax = 1; }
@@ -61,7 +67,8 @@ export function cubicRange(c: Cubic): { min: number; sMin: number; max: number; 
     if (v > max) { max = v; sMax = s; }
     if (v < min) { min = v; sMin = s; }
   }
-  return { min, sMin, max, sMax };
+  range.min = min; range.sMin = sMin; range.max = max; range.sMax = sMax;
+  return range;
 }
 
 /** Root of p - level on [a, b] where the sign changes, by safeguarded regula falsi (Illinois). */
@@ -88,20 +95,22 @@ function rootOn(c: Cubic, level: number, a: number, b: number): number {
   return (a + b) / 2;
 }
 
-/** Monotone pieces of [0, 1]: breakpoints 0, critical points, 1. */
-function pieces(c: Cubic): number[] {
+const breaks = new Float64Array(4);
+
+/** Monotone pieces of [0, 1]: breakpoints 0, critical points, 1, written into breaks; returns their count. */
+function pieces(c: Cubic): number {
   const cnt = cubicCriticalPoints(c, scratch);
-  const br = [0];
-  for (let i = 0; i < cnt; i++) br.push(scratch[i]!);
-  br.push(1);
-  return br;
+  breaks[0] = 0;
+  for (let i = 0; i < cnt; i++) breaks[i + 1] = scratch[i]!;
+  breaks[cnt + 1] = 1;
+  return cnt + 2;
 }
 
 /** Smallest s in [0, 1] where p rises from below level to level, or -1 if it never does. */
 export function cubicFirstUpCrossing(c: Cubic, level: number): number {
-  const br = pieces(c);
-  for (let i = 0; i + 1 < br.length; i++) {
-    const a = br[i]!, b = br[i + 1]!;
+  const nb = pieces(c);
+  for (let i = 0; i + 1 < nb; i++) {
+    const a = breaks[i]!, b = breaks[i + 1]!;
     if (cubicAt(c, a) < level && cubicAt(c, b) >= level) return rootOn(c, level, a, b);
   }
   return -1;
@@ -109,9 +118,9 @@ export function cubicFirstUpCrossing(c: Cubic, level: number): number {
 
 /** Largest s in [0, 1] where p equals level (a sign change of p - level), or -1. */
 export function cubicLastCrossing(c: Cubic, level: number): number {
-  const br = pieces(c);
-  for (let i = br.length - 2; i >= 0; i--) {
-    const a = br[i]!, b = br[i + 1]!;
+  const nb = pieces(c);
+  for (let i = nb - 2; i >= 0; i--) {
+    const a = breaks[i]!, b = breaks[i + 1]!;
     const fa = cubicAt(c, a) - level, fb = cubicAt(c, b) - level;
     if ((fa <= 0 && fb >= 0) || (fa >= 0 && fb <= 0)) return rootOn(c, level, a, b);
   }

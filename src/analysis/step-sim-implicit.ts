@@ -1,4 +1,4 @@
-import { discretise } from './step-discrete.js';
+import { discretise, type Discrete } from './step-discrete.js';
 import type { LoopSystem } from './step-system.js';
 
 /**
@@ -22,16 +22,10 @@ import type { LoopSystem } from './step-system.js';
 /** Rows of the step map output: [x_(k+1) (n); d; d'; u; u'; y; y' at t_(k+1); y' at t_k+]. */
 export const OUT_Y = 4;
 
-/** Hermite cubic coefficients in v in [0, 1] from end values and slopes per unit v. */
-function hermite(p0: number, s0: number, p1: number, s1: number): [number, number, number, number] {
-  return [p0, s0, 3 * (p1 - p0) - 2 * s0 - s1, 2 * (p0 - p1) + s0 + s1];
-}
-
-/** The affine step map for steps of h > T, as a row-major (n + 7) x (n + 5) matrix (last column constant). */
-export function implicitStepMap(sys: LoopSystem, hS: number, delayS: number): Float64Array {
+/** The affine step map for steps of h > T, as a row-major (n + 7) x (n + 5) matrix (last column constant); d1 is the discretisation for step T. */
+export function implicitStepMap(sys: LoopSystem, hS: number, delayS: number, d1: Discrete): Float64Array {
   const n = sys.n;
   const theta = delayS / hS;
-  const d1 = discretise(sys, delayS, true);
   const d2 = discretise(sys, hS - delayS, true);
   const cyA = new Float64Array(n), cuA = new Float64Array(n);
   for (let i = 0; i < n; i++) {
@@ -53,27 +47,25 @@ export function implicitStepMap(sys: LoopSystem, hS: number, delayS: number): Fl
   /** One step from z (scaled by c1 for the constant terms) with given u1, u1'; writes out and returns the residuals. */
   const evalStep = (z: Float64Array, one: number, u1: number, du1: number, out: Float64Array): [number, number] => {
     const d = z[n]!, dd = z[n + 1]!, u = z[n + 2]!, du = z[n + 3]!;
-    const c = hermite(d, delayS * dd, u, delayS * du);
+    // The Hermite piece of u over the window [t_k - T, t_k] is the input over [t_k, t_k + T].
+    const s0 = delayS * dd, s1 = delayS * du;
+    const c2 = 3 * (u - d) - 2 * s0 - s1, c3 = 2 * (d - u) + s0 + s1;
+    const [g0, g1, g2, g3] = d1.g as [Float64Array, Float64Array, Float64Array, Float64Array];
     for (let i = 0; i < n; i++) {
-      let s = one * d1.gr[i]!;
-      for (let j = 0; j < 4; j++) s += c[j]! * d1.g[j]![i]!;
+      let s = one * d1.gr[i]! + d * g0[i]! + s0 * g1[i]! + c2 * g2[i]! + c3 * g3[i]!;
       for (let j = 0; j < n; j++) s += d1.phi[i * n + j]! * z[j]!;
       xMid[i] = s;
     }
     // The piece over the step, in w = (t - t_k)/h, is used on w in [theta, 1] as w - theta = (1 - theta) v.
-    const e = hermite(u, hS * du, u1, hS * du1);
+    const e1 = hS * du, e3s = hS * du1;
+    const e2 = 3 * (u1 - u) - 2 * e1 - e3s, e3 = 2 * (u - u1) + e1 + e3s;
     const span = 1 - theta;
-    let dNext = 0, dNextSlope = 0;
-    const f = [0, 0, 0, 0];
-    for (let j = 0; j < 4; j++) {
-      f[j] = e[j]! * span ** j;
-      dNext += f[j]!;
-      if (j > 0) dNextSlope += j * e[j]! * span ** (j - 1);
-    }
-    dNextSlope /= hS;
+    const f1 = e1 * span, f2 = e2 * span * span, f3 = e3 * span * span * span;
+    const dNext = u + f1 + f2 + f3;
+    const dNextSlope = (e1 + 2 * e2 * span + 3 * e3 * span * span) / hS;
+    const [k0, k1, k2, k3] = d2.g as [Float64Array, Float64Array, Float64Array, Float64Array];
     for (let i = 0; i < n; i++) {
-      let s = one * d2.gr[i]!;
-      for (let j = 0; j < 4; j++) s += f[j]! * d2.g[j]![i]!;
+      let s = one * d2.gr[i]! + u * k0[i]! + f1 * k1[i]! + f2 * k2[i]! + f3 * k3[i]!;
       for (let j = 0; j < n; j++) s += d2.phi[i * n + j]! * xMid[j]!;
       x1[i] = s;
     }
@@ -120,4 +112,29 @@ export function implicitStepMap(sys: LoopSystem, hS: number, delayS: number): Fl
     for (let r = 0; r < rows; r++) q[r * cols + c] = col[r]!;
   }
   return q;
+}
+
+/**
+ * The map of two consecutive steps as one (for a doubled step length): z rows and the end
+ * values of y come from applying the map twice, y' at the start from the first step. Cheaper
+ * than building the map for 2h afresh, and as accurate as the steps of h it is made of.
+ */
+export function composeStepMap(q: Float64Array, n: number): Float64Array {
+  const rows = n + 7;
+  const cols = n + 5;
+  const out = new Float64Array(rows * cols);
+  for (let r = 0; r < rows; r++) {
+    const ro = r * cols;
+    if (r === n + OUT_Y + 2) {
+      for (let c = 0; c < cols; c++) out[ro + c] = q[ro + c]!;
+      continue;
+    }
+    // Row r of the second step applied to [z rows of the first step; constant 1].
+    for (let c = 0; c < cols; c++) {
+      let s = c === cols - 1 ? q[ro + cols - 1]! : 0;
+      for (let j = 0; j < n + 4; j++) s += q[ro + j]! * q[j * cols + c]!;
+      out[ro + c] = s;
+    }
+  }
+  return out;
 }

@@ -1,6 +1,6 @@
 import { discretise, doubleStep, type Discrete } from './step-discrete.js';
 import type { PlanLevel, StepPlan } from './step-plan.js';
-import { OUT_Y, implicitStepMap } from './step-sim-implicit.js';
+import { OUT_Y, composeStepMap, implicitStepMap } from './step-sim-implicit.js';
 import type { LoopSystem } from './step-system.js';
 
 /**
@@ -86,6 +86,8 @@ export function simulateStep(sys: LoopSystem, plan: StepPlan): StepTrace {
   let stride = 1;
   let k = 0;
   let z: Float64Array | null = null;
+  let map: Float64Array | null = null;
+  let mapStride = 0;
   for (const level of plan.levels) {
     if (delayed && level.stride > m) {
       // Steps longer than the delay: the affine implicit map, carrying z = [x; d; d'; u; u'].
@@ -97,7 +99,12 @@ export function simulateStep(sys: LoopSystem, plan: StepPlan): StepTrace {
         z[n] = dPlus; z[n + 1] = dDotPlus; z[n + 2] = uPlus[k]!;
         z[n + 3] = cuAx + cuBr + cuBd * dPlus + dud * dDotPlus;
       }
-      k = implicitLevel(sys, plan, level, z, k, { ticks, tS, yMinus, yPlus, dyStart, dyEnd, uMinus, uPlus, duStart, duEnd });
+      if (!map) {
+        map = implicitStepMap(sys, plan.h0S * level.stride, plan.h0S * m, discretise(sys, plan.h0S * m, true));
+        mapStride = level.stride;
+      }
+      for (; mapStride < level.stride; mapStride *= 2) map = composeStepMap(map, n);
+      k = implicitLevel(n, plan.h0S, level, map, z, k, { ticks, tS, yMinus, yPlus, dyStart, dyEnd, uMinus, uPlus, duStart, duEnd });
       continue;
     }
     while (stride < level.stride) {
@@ -171,10 +178,8 @@ export function simulateStep(sys: LoopSystem, plan: StepPlan): StepTrace {
   return { tS, yMinus, yPlus, dyStart, dyEnd, uMinus, uPlus, duStart, duEnd };
 }
 
-/** Runs one level of steps longer than the delay from grid index k; updates z in place and returns the new index. */
-function implicitLevel(sys: LoopSystem, plan: StepPlan, level: PlanLevel, z: Float64Array, k: number, tr: StepTrace & { ticks: Float64Array }): number {
-  const n = sys.n;
-  const q = implicitStepMap(sys, plan.h0S * level.stride, plan.h0S * plan.delayTicks);
+/** Runs one level of steps longer than the delay with the step map q from grid index k; updates z in place and returns the new index. */
+function implicitLevel(n: number, h0S: number, level: PlanLevel, q: Float64Array, z: Float64Array, k: number, tr: StepTrace & { ticks: Float64Array }): number {
   const rows = n + 7;
   const cols = n + 5;
   const out = new Float64Array(rows);
@@ -190,7 +195,7 @@ function implicitLevel(sys: LoopSystem, plan: StepPlan, level: PlanLevel, z: Flo
     tr.dyStart[k] = out[n + OUT_Y + 2]!;
     for (let c = 0; c < n + 4; c++) z[c] = out[c]!;
     tr.ticks[k1] = tr.ticks[k]! + level.stride;
-    tr.tS[k1] = tr.ticks[k1]! * plan.h0S;
+    tr.tS[k1] = tr.ticks[k1]! * h0S;
     tr.uMinus[k1] = tr.uPlus[k1] = z[n + 2]!;
     tr.duEnd[k] = z[n + 3]!;
     tr.yMinus[k1] = tr.yPlus[k1] = out[n + OUT_Y]!;

@@ -1,4 +1,4 @@
-import type { TransferFunction } from '../model/tf.js';
+import type { Complex, TransferFunction } from '../model/tf.js';
 import { realiseProper, type StateSpace } from './state-space.js';
 
 /**
@@ -25,6 +25,8 @@ export interface LoopSystem {
   readonly dud: number;
   /** Total pure delay T in seconds (plant and compensator delays together). */
   readonly delayS: number;
+  /** Poles of C and of P on their own (they act alone while a delay holds the loop open). */
+  readonly openLoopPoles: readonly Complex[];
 }
 
 /** Stacks C and P into the loop system; throws when C or P is improper or 1 + Dc Dp = 0 without delay. */
@@ -32,7 +34,8 @@ export function buildLoopSystem(plant: TransferFunction, comp: TransferFunction)
   const c = realiseProper(comp.num, comp.den);
   const p = realiseProper(plant.num, plant.den);
   const delayS = plant.delayS + comp.delayS;
-  return balance(delayS > 0 ? openAtDelay(c, p, delayS) : closeAlgebraically(c, p));
+  const sys = balance(delayS > 0 ? openAtDelay(c, p, delayS) : closeAlgebraically(c, p));
+  return { ...sys, openLoopPoles: [...c.poles, ...p.poles] };
 }
 
 /**
@@ -111,7 +114,7 @@ function openAtDelay(c: StateSpace, p: StateSpace, delayS: number): LoopSystem {
     cy[nc + i] = p.c[i]!;
     cu[nc + i] = -c.d * p.c[i]!;
   }
-  return { n, a, br, bd, cy, dyr: 0, dyd: p.d, cu, dur: c.d, dud: -c.d * p.d, delayS };
+  return { n, a, br, bd, cy, dyr: 0, dyd: p.d, cu, dur: c.d, dud: -c.d * p.d, delayS, openLoopPoles: [] };
 }
 
 function closeAlgebraically(c: StateSpace, p: StateSpace): LoopSystem {
@@ -141,5 +144,5 @@ function closeAlgebraically(c: StateSpace, p: StateSpace): LoopSystem {
   const br = zeros(n);
   for (let i = 0; i < nc; i++) br[i] = c.b[i]! * (1 - dyr);
   for (let i = 0; i < p.n; i++) br[nc + i] = p.b[i]! * dur;
-  return { n, a, br, bd: zeros(n), cy, dyr, dyd: 0, cu, dur, dud: 0, delayS: 0 };
+  return { n, a, br, bd: zeros(n), cy, dyr, dyd: 0, cu, dur, dud: 0, delayS: 0, openLoopPoles: [] };
 }

@@ -47,11 +47,6 @@ function planningPoles(plant: TransferFunction, comp: TransferFunction): Complex
   return polyRoots(polyAdd(polyMul(comp.den, plant.den), polyMul(comp.num, plant.num)));
 }
 
-/** With a delay the loop runs open for a while, so C and P show their own poles, which must be resolved too. */
-function openLoopPoles(plant: TransferFunction, comp: TransferFunction): Complex[] {
-  return plant.delayS + comp.delayS === 0 ? [] : [...polyRoots(comp.den), ...polyRoots(plant.den)];
-}
-
 interface Run {
   trace: StepTrace;
   plan: StepPlan;
@@ -62,7 +57,7 @@ function run(sys: LoopSystem, plant: TransferFunction, comp: TransferFunction, p
   const modes = loopModes(plant, comp, poles);
   const yScale = yF !== 0 ? Math.abs(yF) : Math.max(1e-300, ...modes.map((m) => (Number.isFinite(m.yAmp) ? m.yAmp : 0)));
   const uScale = Math.max(1e-300, Math.abs(sys.dur), ...modes.map((m) => (Number.isFinite(m.uAmp) ? m.uAmp : 0)));
-  const plan = planStep(modes, openLoopPoles(plant, comp), sys.delayS, Math.abs(sys.dud), yScale, uScale, opts);
+  const plan = planStep(modes, sys.delayS > 0 ? sys.openLoopPoles : [], sys.delayS, Math.abs(sys.dud), yScale, uScale, opts);
   return { trace: simulateStep(sys, plan), plan };
 }
 
