@@ -79,6 +79,8 @@ export interface StepPlan {
   readonly delayTicks: number;
   readonly levels: readonly PlanLevel[];
   readonly durationS: number;
+  /** True when the run stops before the modes have died (too many steps needed). */
+  readonly cut: boolean;
   readonly warnings: string[];
 }
 
@@ -119,12 +121,12 @@ interface Weighted {
   weight: number;
 }
 
-/** The levels for a base step h0 up to durationS; null when more than maxSteps are needed. */
-function schedule(ms: readonly Weighted[], h0S: number, hMaxS: number, delay: DelayLimits, durationS: number, maxSteps: number): PlanLevel[] | null {
+/** The levels for a base step h0 up to durationS, cut short after maxSteps steps. */
+function schedule(ms: readonly Weighted[], h0S: number, hMaxS: number, delay: DelayLimits, durationS: number, maxSteps: number): { levels: PlanLevel[]; cut: boolean } {
   const levels: PlanLevel[] = [];
   let tick = 0;
   let stride = 1;
-  let total = 0;
+  let left = maxSteps;
   const endTick = durationS / h0S;
   for (;;) {
     const next = stride * 2;
@@ -139,17 +141,17 @@ function schedule(ms: readonly Weighted[], h0S: number, hMaxS: number, delay: De
       }
     }
     const switchTick = switchS / h0S;
-    if (switchTick >= endTick) {
-      const steps = Math.max(1, Math.ceil((endTick - tick) / stride));
-      levels.push({ stride, steps });
-      return total + steps > maxSteps ? null : levels;
-    }
-    let steps = Math.max(0, Math.ceil((switchTick - tick) / stride));
+    const last = switchTick >= endTick;
+    let steps = last ? Math.max(1, Math.ceil((endTick - tick) / stride)) : Math.max(0, Math.ceil((switchTick - tick) / stride));
     // The next level starts on a multiple of its own stride.
-    if ((tick / stride + steps) % 2 === 1) steps++;
-    total += steps;
-    if (total > maxSteps) return null;
+    if (!last && (tick / stride + steps) % 2 === 1) steps++;
+    if (steps > left) {
+      levels.push({ stride, steps: left });
+      return { levels, cut: true };
+    }
     if (steps > 0) levels.push({ stride, steps });
+    if (last) return { levels, cut: false };
+    left -= steps;
     tick += steps * stride;
     stride = next;
   }
@@ -193,22 +195,8 @@ export function planStep(
   // |Dc Dp| (echoRatio); strictly proper parts smooth each pass by one derivative.
   const echoes = echoRatio >= 1 ? Infinity : echoRatio > 0 ? Math.log(1e-10) / Math.log(echoRatio) : 0;
   const longStepsFromS = delayS * Math.max(6, echoes);
-  let levels = schedule(ms, h0S, hMaxS, { ticks: delayTicks, longStepsFromS }, durationS, maxSamples);
-  let coarsened = false;
-  while (!levels) {
-    if (delayS > 0 && delayTicks === 1) {
-      // One step per delay is the coarsest the delay line allows at first: run longer than asked, or cut.
-      const steps = Math.min(Math.ceil(durationS / h0S), 10 * maxSamples);
-      levels = [{ stride: 1, steps }];
-      if (steps * h0S < durationS) warnings.push(`step response cut at ${(steps * h0S).toPrecision(3)} s: the delay is very short next to the slowest mode`);
-      break;
-    }
-    coarsened = true;
-    h0S *= 2;
-    if (delayS > 0) delayTicks /= 2;
-    levels = schedule(ms, h0S, Math.max(hMaxS, h0S), { ticks: delayTicks, longStepsFromS }, durationS, maxSamples);
-  }
-  if (coarsened && h0S > 4 * hFineS) warnings.push('step response: fastest modes are coarsely sampled; peak values may be slightly low');
+  // Cut rather than coarsen: a step too long for a live mode gives wrong peaks, a short run only an unknown settling time.
+  const { levels, cut } = schedule(ms, h0S, hMaxS, { ticks: delayTicks, longStepsFromS }, durationS, maxSamples);
   const total = levels.reduce((acc, l) => acc + l.steps * l.stride, 0);
-  return { h0S, delayTicks, levels, durationS: total * h0S, warnings };
+  return { h0S, delayTicks, levels, durationS: total * h0S, cut, warnings };
 }

@@ -67,11 +67,16 @@ function notSimulable(plant: TransferFunction, comp: TransferFunction): string |
   return null;
 }
 
-/** Samples of the unit-step response y and the effort u of the loop (empty with a warning when it cannot be simulated). */
+/**
+ * Samples of the unit-step response y and the effort u of the loop (empty with a warning when
+ * it cannot be simulated). Times are not evenly spaced: the step grows as fast modes die out.
+ * y[k], u[k] are the values just after tS[k] (y[0] = y(0+)). closedLoopPoles, when known
+ * (with a delay: the refined roots), plan the run better than the delay-free estimate.
+ */
 export function stepResponse(
   plant: TransferFunction,
   comp: TransferFunction,
-  opts: { durationS?: number; maxSamples?: number } = {},
+  opts: { durationS?: number; maxSamples?: number; closedLoopPoles?: readonly Complex[] } = {},
 ): { tS: Float64Array; y: Float64Array; u: Float64Array; warnings: string[] } {
   const why = notSimulable(plant, comp);
   const empty = { tS: new Float64Array(0), y: new Float64Array(0), u: new Float64Array(0) };
@@ -82,9 +87,10 @@ export function stepResponse(
   } catch (e) {
     return { ...empty, warnings: [`step response unavailable: ${(e as Error).message}`] };
   }
-  const { trace, plan } = run(sys, plant, comp, planningPoles(plant, comp), closedLoopDcGain(plant, comp), opts);
-  // Right-hand values: the response just after each grid time, so y[0] = y(0+).
-  return { tS: trace.tS, y: trace.yPlus, u: trace.uPlus, warnings: plan.warnings };
+  const poles = opts.closedLoopPoles && opts.closedLoopPoles.length > 0 ? opts.closedLoopPoles : planningPoles(plant, comp);
+  const { trace, plan } = run(sys, plant, comp, poles, closedLoopDcGain(plant, comp), opts);
+  const warnings = plan.cut ? [...plan.warnings, `step response cut at ${plan.durationS.toPrecision(3)} s: too many steps to follow it to the end`] : plan.warnings;
+  return { tS: trace.tS, y: trace.yPlus, u: trace.uPlus, warnings };
 }
 
 /** Unit-step metrics of a stable loop; null (with warnings saying why) for unstable, marginal or improper loops. */
@@ -108,18 +114,25 @@ export function stepMetrics(
   }
   const yF = closedLoopDcGain(plant, comp);
   const poles = closedLoopPoles.length > 0 ? closedLoopPoles : planningPoles(plant, comp);
-  let { trace, plan } = run(sys, plant, comp, poles, yF, {});
+  const first = run(sys, plant, comp, poles, yF, {});
+  const trace = first.trace;
+  let plan = first.plan;
   const warnings = [...plan.warnings];
   if (yF === 0) {
     warnings.push('closed-loop DC gain is zero: overshoot, rise, settling and peak time are not defined');
     return { metrics: zeroFinalValueMetrics(trace), warnings };
   }
   let res = traceMetrics(trace, yF);
-  if (!res.settled) {
+  if (!res.settled && !plan.cut) {
     // The planned run was too short (modes estimated with a delay, or very large residues): run longer once.
-    ({ trace, plan } = run(sys, plant, comp, poles, yF, { durationS: plan.durationS * 4 }));
-    res = traceMetrics(trace, yF);
-    if (!res.settled) warnings.push(`step response not settled within ${plan.durationS.toPrecision(3)} s: settling time unknown`);
+    const longer = run(sys, plant, comp, poles, yF, { durationS: plan.durationS * 4 });
+    res = traceMetrics(longer.trace, yF);
+    warnings.push(...longer.plan.warnings);
+    plan = longer.plan;
+  }
+  if (!res.settled) {
+    const why = plan.cut ? 'the run was cut short (too many steps)' : 'not settled by then';
+    warnings.push(`step response simulated to ${plan.durationS.toPrecision(3)} s, ${why}: settling time unknown`);
   }
   return { metrics: res.metrics, warnings };
 }

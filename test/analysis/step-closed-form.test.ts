@@ -57,6 +57,18 @@ describe('standard second-order loop wn^2 / (s (s + 2 zeta wn))', () => {
   }
 });
 
+describe('very lightly damped loop (zeta = 1e-4): too long to follow to the end', () => {
+  it('keeps the peak right (Ogata sec. 5-3 formulas) and says settling is unknown rather than guessing', () => {
+    const wn = 10, zeta = 1e-4;
+    const wd = wn * Math.sqrt(1 - zeta * zeta);
+    const r = stepMetrics(tf([wn * wn], [0, 2 * zeta * wn, 1]), unity, [{ re: -zeta * wn, im: wd }, { re: -zeta * wn, im: -wd }], true);
+    expect(r.metrics!.overshootPct).toBeCloseTo(100 * Math.exp((-Math.PI * zeta) / Math.sqrt(1 - zeta * zeta)), 2);
+    expect(Math.abs(r.metrics!.peakTimeS! / (Math.PI / wd) - 1)).toBeLessThan(1e-4);
+    expect(r.metrics!.settlingTimeS).toBeNull();
+    expect(r.warnings.join(' ')).toMatch(/settling time unknown/);
+  });
+});
+
 describe('first-order lag 1 / (tau s + 1) as the closed loop of 1 / (tau s)', () => {
   // y = 1 - e^(-t/tau): 10 % at tau ln(10/9), 90 % at tau ln 10, so rise = tau ln 9; it enters 2 % at tau ln 50.
   it('rise time tau ln 9, settling tau ln 50, no overshoot, effort 1 at 0+', () => {
