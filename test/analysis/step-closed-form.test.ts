@@ -63,7 +63,7 @@ describe('very lightly damped loop (zeta = 1e-4): too long to follow to the end'
     const wd = wn * Math.sqrt(1 - zeta * zeta);
     const r = stepMetrics(tf([wn * wn], [0, 2 * zeta * wn, 1]), unity, [{ re: -zeta * wn, im: wd }, { re: -zeta * wn, im: -wd }], true);
     expect(r.metrics!.overshootPct).toBeCloseTo(100 * Math.exp((-Math.PI * zeta) / Math.sqrt(1 - zeta * zeta)), 2);
-    expect(Math.abs(r.metrics!.peakTimeS! / (Math.PI / wd) - 1)).toBeLessThan(1e-4);
+    expect(Math.abs(r.metrics!.peakTimeS! / (Math.PI / wd) - 1)).toBeLessThan(1e-3);
     expect(r.metrics!.settlingTimeS).toBeNull();
     expect(r.warnings.join(' ')).toMatch(/settling time unknown/);
   });
