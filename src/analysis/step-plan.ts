@@ -7,7 +7,7 @@ import { polyAdd, polyDerivative, polyEvalComplex, polyMul, polyScale } from './
  * Each mode p contributes r e^(pt) to y, with r the residue of Y(s)/s at p. It must be
  * followed until |r| e^(Re(p) t) is far below the settling band (duration), and while it
  * is alive the step must resolve it (|p| h small) so that the cubic pieces stay exact to
- * a few parts in 1e5. Weighting by |r| keeps a nearly cancelled slow pole (a PI zero
+ * the error budget below. Weighting by |r| keeps a nearly cancelled slow pole (a PI zero
  * beside a closed-loop pole) from stretching the run, and a tiny fast pole from
  * shrinking the step.
  */
@@ -40,7 +40,7 @@ export function loopModes(plant: TransferFunction, comp: TransferFunction, poles
   const dd = polyDerivative(d);
   // Delta' = D' + (N' - T N) e^(-sT)
   const nPrime = polyAdd(dn, polyScale(n, -delayS));
-  return poles.map((p) => {
+  return poles.filter((p) => Number.isFinite(p.re) && Number.isFinite(p.im)).map((p) => {
     const eMag = Math.exp(-p.re * delayS);
     const er = eMag * Math.cos(-p.im * delayS);
     const ei = eMag * Math.sin(-p.im * delayS);

@@ -15,9 +15,11 @@ import type { LoopSystem } from './step-system.js';
  * delayed input d(v) = c0 + c1 v + c2 v^2 + c3 v^3 is then integrated exactly:
  *   x_{k+1} = Phi x_k + Gr + sum_j c_j G_j.
  * The cubic is the Hermite piece of the past u through its values and slopes at t_k - T
- * and t_(k+1) - T, which are grid points: the step never exceeds T and T is a whole number
- * of base steps. u is smooth between multiples of T, all of which are grid points, so the
- * piece is accurate to O(h^4). The reference r = 1 is constant for t > 0.
+ * and t_(k+1) - T, which are grid points while the step does not exceed T (T is a whole
+ * number of base steps). u is smooth between multiples of T, all of which are then grid
+ * points, so the piece is accurate to O(h^4). Once u is smooth and the fast modes have
+ * gone, steps longer than T run through the implicit map of step-sim-implicit.ts.
+ * The reference r = 1 is constant for t > 0.
  *
  * Signals may jump at grid points (at t = 0, and at multiples of the delay when C has a
  * feedthrough), so every grid point keeps a left (-) and a right (+) value, and each step

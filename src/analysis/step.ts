@@ -1,5 +1,6 @@
 import type { StepMetrics } from '../model/metrics.js';
-import type { Complex, Poly, TransferFunction } from '../model/tf.js';
+import type { Complex, TransferFunction } from '../model/tf.js';
+import { closedLoopDcGain } from './error-constants.js';
 import { polyAdd, polyMul, polyTrim } from './poly.js';
 import { polyRoots } from './roots.js';
 import { traceMetrics, zeroFinalValueMetrics } from './step-metrics.js';
@@ -18,24 +19,9 @@ import { buildLoopSystem, type LoopSystem } from './step-system.js';
 /** Below this damping ratio a closed-loop pole counts as on the imaginary axis. */
 const MARGINAL_DAMPING = 1e-6;
 
-/** Index of the lowest nonzero coefficient (the power of s that p starts with). */
-function lowestPower(p: Poly): number {
-  let k = 0;
-  while (k < p.length - 1 && p[k] === 0) k++;
-  return k;
-}
-
-/** T(0) = L(0) / (1 + L(0)) exactly from the trailing coefficients; an integrating loop gives 1. */
-function closedLoopDcGain(plant: TransferFunction, comp: TransferFunction): number {
-  const n = polyTrim(polyMul(comp.num, plant.num));
-  const d = polyTrim(polyMul(comp.den, plant.den));
-  if (n.length === 1 && n[0] === 0) return 0;
-  const kn = lowestPower(n);
-  const kd = lowestPower(d);
-  if (kn > kd) return 0;
-  if (kn < kd) return 1;
-  const l0 = n[kn]! / d[kd]!;
-  return l0 / (1 + l0);
+/** T(0) of the loop exactly from its trailing coefficients (an integrating loop gives 1). */
+function loopDcGain(plant: TransferFunction, comp: TransferFunction): number {
+  return closedLoopDcGain({ num: polyMul(comp.num, plant.num), den: polyMul(comp.den, plant.den), delayS: 0 });
 }
 
 function isProper(tf: TransferFunction): boolean {
@@ -55,7 +41,7 @@ interface Run {
 /** Builds the loop system and simulates it on the planned grid. */
 function run(sys: LoopSystem, plant: TransferFunction, comp: TransferFunction, poles: readonly Complex[], yF: number, opts: { durationS?: number; maxSamples?: number }): Run {
   const modes = loopModes(plant, comp, poles);
-  const yScale = yF !== 0 ? Math.abs(yF) : Math.max(1e-300, ...modes.map((m) => (Number.isFinite(m.yAmp) ? m.yAmp : 0)));
+  const yScale = yF !== 0 && Number.isFinite(yF) ? Math.abs(yF) : Math.max(1e-300, ...modes.map((m) => (Number.isFinite(m.yAmp) ? m.yAmp : 0)));
   const uScale = Math.max(1e-300, Math.abs(sys.dur), ...modes.map((m) => (Number.isFinite(m.uAmp) ? m.uAmp : 0)));
   const plan = planStep(modes, sys.delayS > 0 ? sys.openLoopPoles : [], sys.delayS, Math.abs(sys.dud), yScale, uScale, opts);
   return { trace: simulateStep(sys, plan), plan };
@@ -88,7 +74,7 @@ export function stepResponse(
     return { ...empty, warnings: [`step response unavailable: ${(e as Error).message}`] };
   }
   const poles = opts.closedLoopPoles && opts.closedLoopPoles.length > 0 ? opts.closedLoopPoles : planningPoles(plant, comp);
-  const { trace, plan } = run(sys, plant, comp, poles, closedLoopDcGain(plant, comp), opts);
+  const { trace, plan } = run(sys, plant, comp, poles, loopDcGain(plant, comp), opts);
   const warnings = plan.cut ? [...plan.warnings, `step response cut at ${plan.durationS.toPrecision(3)} s: too many steps to follow it to the end`] : plan.warnings;
   return { tS: trace.tS, y: trace.yPlus, u: trace.uPlus, warnings };
 }
@@ -112,7 +98,7 @@ export function stepMetrics(
   } catch (e) {
     return { metrics: null, warnings: [`no step metrics: ${(e as Error).message}`] };
   }
-  const yF = closedLoopDcGain(plant, comp);
+  const yF = loopDcGain(plant, comp);
   const poles = closedLoopPoles.length > 0 ? closedLoopPoles : planningPoles(plant, comp);
   const first = run(sys, plant, comp, poles, yF, {});
   const trace = first.trace;
