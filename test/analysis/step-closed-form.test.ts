@@ -149,6 +149,40 @@ describe('integrator with delay under proportional control, K e^(-sT) / s', () =
   });
 });
 
+describe('PI on a pure gain with a short delay: C = a + k/s, P = g e^(-sT)', () => {
+  // u = a e + k int e, e = 1 - g u(t - T). Method of steps on [jT, (j+1)T] with tau = t - jT:
+  // u_j = a (1 - g u_(j-1)) + I_j, I_j(tau) = I_(j-1)(T) + k int_0^tau (1 - g u_(j-1)); y_j = g u_(j-1).
+  // Each jump of u returns every T scaled by -a g, so the run starts on steps of T and
+  // lengthens them (the implicit long-step map) once the echoes have faded.
+  const a = 0.5, k = 2, g = 1, T = 0.01, DEG = 40;
+  const polyAt = (p: number[], x: number) => p.reduceRight((acc, c) => acc * x + c, 0);
+  const uPieces: number[][] = [];
+  let prev: number[] = [0];
+  let iEnd = 0;
+  for (let j = 0; j < 1200; j++) {
+    const e = prev.map((c, i) => (i === 0 ? 1 : 0) - g * c);
+    const integ = [iEnd, ...e.map((c, i) => (k * c) / (i + 1))].slice(0, DEG);
+    const u = integ.map((c, i) => c + a * (e[i] ?? 0));
+    uPieces.push(u);
+    iEnd = polyAt(integ, T);
+    prev = u;
+  }
+  const y = (t: number) => {
+    const j = Math.floor(t / T + 1e-9);
+    return j === 0 ? 0 : g * polyAt(uPieces[j - 1]!, t - j * T);
+  };
+
+  it('samples follow the method-of-steps solution through the echoes and the long steps', () => {
+    const r = stepResponse(tf([g], [1], T), tf([k, a], [0, 1]));
+    expect(r.warnings).toEqual([]);
+    let worst = 0;
+    for (let i = 1; i < r.tS.length; i++) worst = Math.max(worst, Math.abs(r.y[i]! - y(r.tS[i]!)));
+    expect(worst).toBeLessThan(1e-8);
+    // The run went well past the echoes on steps longer than the delay.
+    expect(r.tS[r.tS.length - 1]! - r.tS[r.tS.length - 2]!).toBeGreaterThan(1.5 * T);
+  });
+});
+
 describe('final value, jumps at 0+ and refusals', () => {
   it('type-0 loop: final value L(0) / (1 + L(0)) exactly', () => {
     // L = 20 / ((s + 1)(s + 5)): L(0) = 4, so y_f = 4/5; closed-loop poles of s^2 + 6 s + 25.
