@@ -2,6 +2,7 @@ import os from 'node:os';
 import { UserError } from '../model/errors.js';
 import type { FreqUnit } from '../model/units.js';
 import type { StoreSql } from '../store/queries.js';
+import type { LoopStatus } from '../model/requirements.js';
 import type { LoopRow, RevisionHeadRow } from '../store/rows.js';
 import { LoopGraph } from './graph.js';
 import { loopRef, parseLoopRef } from './names.js';
@@ -50,8 +51,11 @@ export function machineGraph(core: Core): LoopGraph {
   return new LoopGraph(core.sql.loops(), core.sql.heads(), core.unit());
 }
 
-/** The public form of a revision row. */
-export function revisionInfo(loop: LoopRow, r: RevisionHeadRow): RevisionInfo {
+const STATUSES: readonly string[] = ['pass', 'fail', 'unstable', 'error'] satisfies LoopStatus[];
+
+/** The public form of a revision row; `status_then` comes with rows read back, or is given for a new one. */
+export function revisionInfo(loop: LoopRow, r: RevisionHeadRow & { readonly status_then?: string | null }): RevisionInfo {
+  const status = r.status_then ?? null;
   return {
     loop: loopRef(loop.axis, loop.name),
     number: r.number,
@@ -61,5 +65,6 @@ export function revisionInfo(loop: LoopRow, r: RevisionHeadRow): RevisionInfo {
     time: r.created_at,
     note: r.note,
     summary: r.summary,
+    status: status !== null && STATUSES.includes(status) ? (status as LoopStatus) : null,
   };
 }

@@ -12,7 +12,7 @@ import type { LoopState } from './types.js';
  */
 
 const METRICS: readonly MetricKey[] = ['pm', 'gm', 'fc', 'bw', 'ms', 'mt', 'dm', 'os', 'tr', 'ts', 'kp', 'kv', 'ka', 'effort', 'hf', 'sep'];
-const KINDS = ['create', 'plant', 'spec', 'comp', 'revert'];
+const KINDS = ['create', 'plant', 'spec', 'comp', 'revert', 'edit'];
 
 type Obj = Record<string, unknown>;
 

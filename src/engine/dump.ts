@@ -31,8 +31,8 @@ export interface LoopDump {
   readonly revisions: readonly RevisionDump[];
 }
 
-/** A revision as `Revision`, minus the loop name (the enclosing loop says it). */
-export type RevisionDump = Omit<Revision, 'loop'>;
+/** A revision as `Revision`, minus the loop name (the enclosing loop says it) and its status (a dump holds no results). */
+export type RevisionDump = Omit<Revision, 'loop' | 'status'>;
 
 /**
  * The whole machine as readable JSON: keys sorted, two-space indent, number

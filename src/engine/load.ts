@@ -42,6 +42,8 @@ export async function loadInto(sql: StoreSql, dump: MachineDump, where: string, 
           sql.insertRevision({
             loop_id: id, number: r.number, parent: r.parent, kind: r.kind, author: r.author, created_at: r.time,
             note: r.note, summary: r.summary, state_json: enc.json, state_hash: enc.stateHash, dynamics_hash: enc.dynamicsHash,
+            // A dump holds no results: no revision was checked when it was saved here.
+            check_hash: null,
           });
         }
         return id;

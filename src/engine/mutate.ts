@@ -1,5 +1,5 @@
 import { UserError } from '../model/errors.js';
-import type { LoopRow, RevisionRow } from '../store/rows.js';
+import type { LoopRow, RevisionHeadRow, RevisionRow } from '../store/rows.js';
 import { axisGraph, findLoop, revisionInfo, type Core } from './core.js';
 import { ConflictError } from './errors.js';
 import { checkName, loopRef, parseLoopRef } from './names.js';
@@ -20,7 +20,7 @@ export interface ChangeSpec {
   apply(latest: LoopState, ref: string): { state: LoopState; summary: string };
 }
 
-function checkBase(ref: string, head: RevisionRow, opts: ChangeOptions): number {
+function checkBase(ref: string, head: RevisionHeadRow, opts: ChangeOptions): number {
   if (opts.base === undefined) return head.number;
   if (!Number.isInteger(opts.base) || opts.base < 1 || opts.base > head.number) {
     throw new UserError(`${ref} has no revision ${opts.base} to base a change on; its latest is ${head.number}`);
@@ -31,22 +31,32 @@ function checkBase(ref: string, head: RevisionRow, opts: ChangeOptions): number 
   return opts.base;
 }
 
+/**
+ * Appends a revision. Its check hash is the input hash its own result will be
+ * stored under by the recheck that follows in the same transaction: the loop's
+ * inputs besides its own state (inner loops, sample rate, unit, analysis
+ * version) do not move with this change, so the graph read before it gives it.
+ */
 function appendRevision(core: Core, loop: LoopRow, number: number, parent: number | null, kind: RevisionKind, state: LoopState, summary: string, opts: ChangeOptions): RevisionRow {
   const enc = encodeState(state);
   const row: RevisionRow = {
     loop_id: loop.id, number, parent, kind, author: core.author(opts.author), created_at: core.now(),
     note: opts.note ?? '', summary, state_json: enc.json, state_hash: enc.stateHash, dynamics_hash: enc.dynamicsHash,
+    check_hash: axisGraph(core, loop.axis_id).inputHash(loop.id, enc.stateHash),
   };
   core.sql.insertRevision(row);
   return row;
 }
 
-/** Rechecks a loop and every loop built on it (inside the caller's transaction). */
-function recheckFrom(core: Core, loop: LoopRow, ev: Evaluator): ChangeOutcome['results'] {
+/** Rechecks a loop and every loop built on it (inside the caller's transaction); the new revision carries the loop's status. */
+function recheckFrom(core: Core, loop: LoopRow, row: RevisionRow, ev: Evaluator): ChangeOutcome {
   const graph = axisGraph(core, loop.axis_id);
   const ids = [loop.id, ...graph.dependants(loop.id)];
   const results = recheck({ sql: core.sql, graph, ev, computedAt: core.now(), store: true }, ids);
-  return ids.map((id) => results.get(id)!);
+  const own = results.get(loop.id)!;
+  // The revision names this result as its status then; a mismatch would silently lose it.
+  if (own.inputHash !== row.check_hash) throw new Error(`${own.loop}: check hash of revision ${row.number} does not match its result`);
+  return { revision: revisionInfo(loop, { ...row, status_then: own.status }), results: ids.map((id) => results.get(id)!) };
 }
 
 /** Applies one change to an existing loop. */
@@ -59,7 +69,7 @@ export async function applyChange(core: Core, ref: string, opts: ChangeOptions, 
     const parent = checkBase(ref, head, opts);
     const { state, summary } = spec.apply(decodeState(head.state_json), ref);
     const row = appendRevision(core, loop, head.number + 1, parent, spec.kind, state, summary, opts);
-    return { revision: revisionInfo(loop, row), results: recheckFrom(core, loop, ev) };
+    return recheckFrom(core, loop, row, ev);
   });
 }
 
@@ -94,6 +104,6 @@ export async function createLoop(core: Core, ref: string, spec: NewLoop, opts: C
     if (loop.id !== id) throw new Error('loop id mismatch after insert');
     const state = initialState(spec.variant, spec.plant);
     const row = appendRevision(core, loop, 1, null, 'create', state, `create: plant ${spec.variant} ${spec.plant.text}`, opts);
-    return { revision: revisionInfo(loop, row), results: recheckFrom(core, loop, ev) };
+    return recheckFrom(core, loop, row, ev);
   });
 }

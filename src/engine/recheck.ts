@@ -1,7 +1,7 @@
 import type { StoreSql } from '../store/queries.js';
-import type { ResultRow } from '../store/rows.js';
-import { canonicalJson, parseStored } from './canonical-json.js';
+import { canonicalJson } from './canonical-json.js';
 import type { LoopGraph } from './graph.js';
+import { readStoredResult } from './result-shape.js';
 import { decodeState } from './state.js';
 import type { LoopResult, LoopState } from './types.js';
 import type * as EvaluateModule from './evaluate.js';
@@ -40,11 +40,6 @@ export interface RecheckEnv {
   readonly counter?: { analysed: number };
 }
 
-/** Decodes a stored result row. */
-export function decodeResult(row: ResultRow): LoopResult {
-  return parseStored<LoopResult>(row.result_json);
-}
-
 /** The revision and input hash a loop's result is keyed by in this recheck (hash null: unsaved). */
 function key(env: RecheckEnv, id: number): { revision: number; hash: string | null } {
   const ov = env.overrides?.get(id);
@@ -52,13 +47,20 @@ function key(env: RecheckEnv, id: number): { revision: number; hash: string | nu
   return { revision: env.graph.head(id).number, hash: env.graph.inputHash(id) };
 }
 
-/** The stored result of a loop when it is fresh, else null. No numerics. */
-export function storedResult(env: RecheckEnv, id: number): LoopResult | null {
+/**
+ * The stored result of a loop when it is fresh and readable, else null. No
+ * numerics. A row this build cannot read (an older layout) counts as stale and
+ * its loop id goes into `unreadable`, so the fresh result replaces it.
+ */
+export function storedResult(env: RecheckEnv, id: number, unreadable?: Set<number>): LoopResult | null {
   if (env.recompute?.has(id)) return null;
   const k = key(env, id);
   if (k.hash === null) return null;
   const row = env.sql.result(id, k.revision, k.hash);
-  return row ? decodeResult(row) : null;
+  if (!row) return null;
+  const r = readStoredResult(row);
+  if (r === null) unreadable?.add(id);
+  return r;
 }
 
 /**
@@ -69,9 +71,10 @@ export function storedResult(env: RecheckEnv, id: number): LoopResult | null {
 export function recheck(env: RecheckEnv, ids: Iterable<number>): Map<number, LoopResult> {
   const { graph } = env;
   const results = new Map<number, LoopResult>();
+  const unreadable = new Set<number>();
   let cascade: InstanceType<Evaluator['Cascade']> | null = null;
   for (const id of graph.withInnerChains(ids)) {
-    const stored = storedResult(env, id);
+    const stored = storedResult(env, id, unreadable);
     if (stored !== null) {
       results.set(id, stored);
       continue;
@@ -94,7 +97,9 @@ export function recheck(env: RecheckEnv, ids: Iterable<number>): Map<number, Loo
     });
     if (env.counter) env.counter.analysed++;
     if (env.store && k.hash !== null) {
-      env.sql.insertResult({ loop_id: id, revision: k.revision, input_hash: k.hash, status: r.status, result_json: canonicalJson(r), computed_at: env.computedAt });
+      const row = { loop_id: id, revision: k.revision, input_hash: k.hash, status: r.status, result_json: canonicalJson(r), computed_at: env.computedAt };
+      if (unreadable.has(id)) env.sql.replaceResult(row);
+      else env.sql.insertResult(row);
     }
     results.set(id, r);
   }

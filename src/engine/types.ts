@@ -34,8 +34,8 @@ export interface LoopState {
   readonly compensator: Compensator;
 }
 
-/** What a revision changed. `create` is a loop's first revision. */
-export type RevisionKind = 'create' | 'plant' | 'spec' | 'comp' | 'revert';
+/** What a revision changed. `create` is a loop's first revision; `edit` changed compensator and requirements together. */
+export type RevisionKind = 'create' | 'plant' | 'spec' | 'comp' | 'revert' | 'edit';
 
 /** One saved change to a loop, without its state. */
 export interface RevisionInfo {
@@ -52,6 +52,12 @@ export interface RevisionInfo {
   readonly note: string;
   /** One line saying what changed, e.g. "comp: gain:2 lead:30Hz/150Hz". */
   readonly summary: string;
+  /**
+   * The loop's status as checked when this revision was saved (in the same
+   * transaction, with the inner loops of that moment); null where no check was
+   * stored with the save (older revisions of a loaded dump).
+   */
+  readonly status: LoopStatus | null;
 }
 
 /** A revision with the full loop state after it. */

@@ -65,19 +65,36 @@ function appliedVersions(db: Database.Database): Set<number> {
 export function applyMigrations(db: Database.Database, migrations: readonly Migration[], now: () => Date = () => new Date()): number {
   // The common case, nothing pending, is decided without taking the write lock.
   const applied = appliedVersions(db);
-  for (const m of migrations) {
-    if (applied.has(m.version)) continue;
-    db.transaction(() => {
-      if (appliedVersions(db).has(m.version)) return;
-      const sql = fs.readFileSync(m.file, 'utf8');
-      try {
-        db.exec(sql);
-      } catch (e) {
-        throw new Error(`migration ${path.basename(m.file)} failed and was rolled back: ${e instanceof Error ? e.message : String(e)}`);
-      }
-      db.prepare('INSERT INTO schema_migrations (version, name, applied_at) VALUES (?, ?, ?)').run(m.version, m.name, now().toISOString());
-      db.pragma(`user_version = ${m.version}`);
-    }).immediate();
+  const pending = migrations.filter((m) => !applied.has(m.version));
+  if (pending.length === 0) return db.pragma('user_version', { simple: true }) as number;
+  // A migration may rebuild a table (SQLite cannot alter a CHECK constraint): with foreign keys on, dropping
+  // the old table would cascade into its children. So they are off while migrating (the pragma cannot change
+  // inside a transaction), and each migration proves its own result with foreign_key_check before it commits.
+  const fk = db.pragma('foreign_keys', { simple: true }) as number;
+  db.pragma('foreign_keys = OFF');
+  try {
+    for (const m of pending) applyOne(db, m, now);
+  } finally {
+    db.pragma(`foreign_keys = ${fk ? 'ON' : 'OFF'}`);
   }
   return db.pragma('user_version', { simple: true }) as number;
+}
+
+function applyOne(db: Database.Database, m: Migration, now: () => Date): void {
+  db.transaction(() => {
+    if (appliedVersions(db).has(m.version)) return;
+    const sql = fs.readFileSync(m.file, 'utf8');
+    const fail = (why: string): never => {
+      throw new Error(`migration ${path.basename(m.file)} failed and was rolled back: ${why}`);
+    };
+    try {
+      db.exec(sql);
+    } catch (e) {
+      fail(e instanceof Error ? e.message : String(e));
+    }
+    const broken = db.pragma('foreign_key_check') as { table: string; parent: string }[];
+    if (broken.length > 0) fail(`${broken.length} row(s) of ${broken[0]!.table} lost their ${broken[0]!.parent} row`);
+    db.prepare('INSERT INTO schema_migrations (version, name, applied_at) VALUES (?, ?, ?)').run(m.version, m.name, now().toISOString());
+    db.pragma(`user_version = ${m.version}`);
+  }).immediate();
 }

@@ -1,12 +1,15 @@
 import type Database from 'better-sqlite3';
-import type { AxisRow, LoopRow, MachineRow, ResultRow, RevisionHeadRow, RevisionRow } from './rows.js';
+import type { AxisRow, LoopRow, MachineRow, ResultRow, RevisionReadRow, RevisionRow, RevisionStateRow } from './rows.js';
 
-const HEAD_COLUMNS = 'loop_id, number, parent, kind, author, created_at, note, summary, state_hash, dynamics_hash';
+/** Revision columns without the state, plus the status of the result computed with the save ("status then"). */
+const HEAD_COLUMNS = 'r.loop_id, r.number, r.parent, r.kind, r.author, r.created_at, r.note, r.summary, r.state_hash, r.dynamics_hash, r.check_hash, '
+  + '(SELECT x.status FROM result x WHERE x.loop_id = r.loop_id AND x.revision = r.number AND x.input_hash = r.check_hash) AS status_then';
 const LOOP_SELECT = 'SELECT l.id, l.axis_id, a.name AS axis, l.name, l.inner_loop_id, l.sample_rate_hz FROM loop l JOIN axis a ON a.id = l.axis_id';
 
 /**
  * Every SQL statement of loopledger, prepared once per connection. Only reads
- * and appends: history rows are never updated or deleted.
+ * and appends: history rows are never updated or deleted (the one replace is of
+ * an unreadable cached result, see replaceResult).
  */
 export class StoreSql {
   private readonly cache = new Map<string, Database.Statement>();
@@ -71,37 +74,37 @@ export class StoreSql {
   }
 
   /** The latest revision of every loop (without state). */
-  heads(): RevisionHeadRow[] {
-    return this.st(`SELECT ${HEAD_COLUMNS} FROM revision r WHERE number = (SELECT max(number) FROM revision WHERE loop_id = r.loop_id)`).all() as RevisionHeadRow[];
+  heads(): RevisionReadRow[] {
+    return this.st(`SELECT ${HEAD_COLUMNS} FROM revision r WHERE r.number = (SELECT max(number) FROM revision WHERE loop_id = r.loop_id)`).all() as RevisionReadRow[];
   }
 
   /** The latest revision of every loop of one axis (without state). */
-  headsOfAxis(axisId: number): RevisionHeadRow[] {
-    return this.st(`SELECT ${HEAD_COLUMNS} FROM revision r WHERE r.loop_id IN (SELECT id FROM loop WHERE axis_id = ?) AND number = (SELECT max(number) FROM revision WHERE loop_id = r.loop_id)`)
-      .all(axisId) as RevisionHeadRow[];
+  headsOfAxis(axisId: number): RevisionReadRow[] {
+    return this.st(`SELECT ${HEAD_COLUMNS} FROM revision r WHERE r.loop_id IN (SELECT id FROM loop WHERE axis_id = ?) AND r.number = (SELECT max(number) FROM revision WHERE loop_id = r.loop_id)`)
+      .all(axisId) as RevisionReadRow[];
   }
 
-  head(loopId: number): RevisionRow | undefined {
-    return this.st(`SELECT ${HEAD_COLUMNS}, state_json FROM revision WHERE loop_id = ? ORDER BY number DESC LIMIT 1`).get(loopId) as RevisionRow | undefined;
+  head(loopId: number): RevisionStateRow | undefined {
+    return this.st(`SELECT ${HEAD_COLUMNS}, r.state_json FROM revision r WHERE r.loop_id = ? ORDER BY r.number DESC LIMIT 1`).get(loopId) as RevisionStateRow | undefined;
   }
 
-  revision(loopId: number, number: number): RevisionRow | undefined {
-    return this.st(`SELECT ${HEAD_COLUMNS}, state_json FROM revision WHERE loop_id = ? AND number = ?`).get(loopId, number) as RevisionRow | undefined;
+  revision(loopId: number, number: number): RevisionStateRow | undefined {
+    return this.st(`SELECT ${HEAD_COLUMNS}, r.state_json FROM revision r WHERE r.loop_id = ? AND r.number = ?`).get(loopId, number) as RevisionStateRow | undefined;
   }
 
   /** A loop's revisions oldest first, without state. */
-  log(loopId: number): RevisionHeadRow[] {
-    return this.st(`SELECT ${HEAD_COLUMNS} FROM revision WHERE loop_id = ? ORDER BY number`).all(loopId) as RevisionHeadRow[];
+  log(loopId: number): RevisionReadRow[] {
+    return this.st(`SELECT ${HEAD_COLUMNS} FROM revision r WHERE r.loop_id = ? ORDER BY r.number`).all(loopId) as RevisionReadRow[];
   }
 
   /** A loop's revisions oldest first, with state (dump). */
-  history(loopId: number): RevisionRow[] {
-    return this.st(`SELECT ${HEAD_COLUMNS}, state_json FROM revision WHERE loop_id = ? ORDER BY number`).all(loopId) as RevisionRow[];
+  history(loopId: number): RevisionStateRow[] {
+    return this.st(`SELECT ${HEAD_COLUMNS}, r.state_json FROM revision r WHERE r.loop_id = ? ORDER BY r.number`).all(loopId) as RevisionStateRow[];
   }
 
   insertRevision(r: RevisionRow): void {
-    this.st('INSERT INTO revision (loop_id, number, parent, kind, author, created_at, note, summary, state_json, state_hash, dynamics_hash) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)')
-      .run(r.loop_id, r.number, r.parent, r.kind, r.author, r.created_at, r.note, r.summary, r.state_json, r.state_hash, r.dynamics_hash);
+    this.st('INSERT INTO revision (loop_id, number, parent, kind, author, created_at, note, summary, state_json, state_hash, dynamics_hash, check_hash) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)')
+      .run(r.loop_id, r.number, r.parent, r.kind, r.author, r.created_at, r.note, r.summary, r.state_json, r.state_hash, r.dynamics_hash, r.check_hash);
   }
 
   result(loopId: number, revision: number, inputHash: string): ResultRow | undefined {
@@ -112,6 +115,16 @@ export class StoreSql {
   /** Stores a result; the same inputs always give the same result, so a repeat is ignored. */
   insertResult(r: ResultRow): void {
     this.st('INSERT OR IGNORE INTO result (loop_id, revision, input_hash, status, result_json, computed_at) VALUES (?, ?, ?, ?, ?, ?)')
+      .run(r.loop_id, r.revision, r.input_hash, r.status, r.result_json, r.computed_at);
+  }
+
+  /**
+   * Replaces a stored result that could not be read back (written by an older
+   * build in another layout). The only change to a stored row: results are a
+   * cache of what the revisions imply, not history.
+   */
+  replaceResult(r: ResultRow): void {
+    this.st('INSERT OR REPLACE INTO result (loop_id, revision, input_hash, status, result_json, computed_at) VALUES (?, ?, ?, ?, ?, ?)')
       .run(r.loop_id, r.revision, r.input_hash, r.status, r.result_json, r.computed_at);
   }
 

@@ -36,9 +36,22 @@ export interface RevisionHeadRow {
   readonly summary: string;
   readonly state_hash: string;
   readonly dynamics_hash: string;
+  /** Input hash of the result computed with the save (NULL: none was, e.g. older revisions of a loaded dump). */
+  readonly check_hash: string | null;
+}
+
+/** A revision as read back: with the status of the result computed with its save, when there is one. */
+export interface RevisionReadRow extends RevisionHeadRow {
+  /** `result.status` of (loop, number, check_hash); null without one. */
+  readonly status_then: string | null;
 }
 
 export interface RevisionRow extends RevisionHeadRow {
+  readonly state_json: string;
+}
+
+/** A stored revision with its state, as read back. */
+export interface RevisionStateRow extends RevisionReadRow {
   readonly state_json: string;
 }
 
