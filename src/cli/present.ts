@@ -1,6 +1,4 @@
-import { formatMetricValue } from '../engine/requirement-syntax.js';
-import type { ChangeOutcome, LoopResult } from '../engine/index.js';
-import { headline } from '../engine/views.js';
+import { formatMetricValue, headline, type ChangeOutcome, type LoopResult } from '../engine/index.js';
 import type { RequirementResult } from '../model/requirements.js';
 import type { FreqUnit } from '../model/units.js';
 import { statusText, table } from './output.js';

@@ -2,8 +2,8 @@ import type { Block } from '../model/blocks.js';
 import type { Requirement } from '../model/requirements.js';
 import type { FreqUnit } from '../model/units.js';
 import type {
-  AxisInfo, BlockInput, ChangeOptions, ChangeOutcome, CheckReport, LoopDetail, LoopDiff, LoopInfo, LoopResult,
-  LoopState, MachineSettings, OverviewRow, RequirementInput, Revision, RevisionInfo, WhatIfEdit, WhatIfResult,
+  AxisInfo, BlockInput, ChangeOptions, ChangeOutcome, CheckReport, EffectivePlants, EffectivePlantsOptions, LoopDetail, LoopDiff, LoopEdit,
+  LoopInfo, MachineSettings, OverviewRow, RequirementInput, Revision, RevisionInfo, WhatIfEdit, WhatIfResult,
 } from './types.js';
 
 export type * from './types.js';
@@ -58,6 +58,12 @@ export interface Machine {
   setCompensator(ref: string, blocks: readonly BlockInput[], opts?: ChangeOptions & { ideal?: boolean }): Promise<ChangeOutcome>;
   /** A new revision whose state equals revision `number`. */
   revert(ref: string, number: number, opts?: ChangeOptions): Promise<ChangeOutcome>;
+  /**
+   * Saves an edit of the compensator and/or the complete requirement list as ONE
+   * revision (kind `comp` or `spec` when only one moved, `edit` when both did);
+   * the same edit `whatIf` previews. An edit that changes nothing is refused.
+   */
+  applyEdit(ref: string, edit: LoopEdit, opts?: ChangeOptions): Promise<ChangeOutcome>;
 
   /** Revisions of a loop, oldest first. */
   log(ref: string): RevisionInfo[];
@@ -77,6 +83,13 @@ export interface Machine {
   dataVersion(): number;
   /** Evaluates an unsaved compensator and/or requirements of a loop; writes nothing. */
   whatIf(ref: string, edit: WhatIfEdit): Promise<WhatIfResult>;
+  /**
+   * The plant each variant of a loop controls (an outer loop's: the closed inner
+   * loop times its own plant, as `check` forms it), with the loop's state and the
+   * inner loop's bandwidth for `sep`. At the latest revision unless a saved
+   * revision or a draft state is given; may analyse a stale inner loop.
+   */
+  effectivePlants(ref: string, opts?: EffectivePlantsOptions): Promise<EffectivePlants>;
 
   /** Parses block words in the store's unit (loads the expression parser only for `expr:` blocks). */
   parseBlocks(words: readonly string[]): Promise<Block[]>;
@@ -108,3 +121,8 @@ export interface OpenOptions {
  */
 export { openMachine, initMachine, loadMachine, storeExists } from './machine.js';
 export type { FreqUnit };
+
+/** Pure helpers faces need to show engine data in the store's syntax and unit (no store, no numerics). */
+export { headline } from './views.js';
+export { BLOCK_SYNTAX_HELP, formatBlock } from './block-syntax.js';
+export { REQUIREMENT_SYNTAX_HELP, formatMetricValue, formatRequirement, metricName } from './requirement-syntax.js';

@@ -14,9 +14,13 @@ import { makeCompensator, parseBlocks, parsePlant, parseRequirements } from './i
 import { loadInto, readDump } from './load.js';
 import { applyChange, createLoop } from './mutate.js';
 import { checkName, parseLoopRef } from './names.js';
-import { formatBlock } from './block-syntax.js';
+import { compensatorText, editChange, parseEdit } from './edit.js';
+import { effectivePlants } from './plants.js';
 import { DEFAULT_VARIANT, requirementKey, withCompensator, withoutPlant, withoutRequirements, withPlant, withRequirements } from './state.js';
-import type { AxisInfo, BlockInput, ChangeOptions, ChangeOutcome, CheckReport, LoopDetail, LoopDiff, LoopInfo, MachineSettings, OverviewRow, RequirementInput, Revision, RevisionInfo, WhatIfEdit, WhatIfResult } from './types.js';
+import type {
+  AxisInfo, BlockInput, ChangeOptions, ChangeOutcome, CheckReport, EffectivePlants, EffectivePlantsOptions, LoopDetail, LoopDiff, LoopEdit, LoopInfo,
+  MachineSettings, OverviewRow, RequirementInput, Revision, RevisionInfo, WhatIfEdit, WhatIfResult,
+} from './types.js';
 import { listAxes, listLoops, loopDetail, loopInfo, loopLog, loopRevision, overview } from './views.js';
 import { whatIf } from './whatif.js';
 
@@ -118,11 +122,16 @@ class MachineImpl implements Machine {
     findLoop(this.core, ref);
     const unit = this.core.unit();
     const comp = makeCompensator(await parseBlocks(blocks, unit), opts.ideal === true, unit);
-    const text = comp.blocks.length === 0 ? '(no blocks: unity gain)' : comp.blocks.map((b) => formatBlock(b, unit)).join(' ');
     return applyChange(this.core, ref, opts, {
       kind: 'comp',
-      apply: (s) => ({ state: withCompensator(s, comp), summary: `comp ${text}${comp.ideal ? ' (ideal)' : ''}` }),
+      apply: (s) => ({ state: withCompensator(s, comp), summary: `comp ${compensatorText(comp, unit)}` }),
     });
+  }
+
+  async applyEdit(ref: string, edit: LoopEdit, opts: ChangeOptions = {}): Promise<ChangeOutcome> {
+    findLoop(this.core, ref);
+    const unit = this.core.unit();
+    return applyChange(this.core, ref, opts, editChange(await parseEdit(edit, unit), unit));
   }
 
   async revert(ref: string, number: number, opts: ChangeOptions = {}): Promise<ChangeOutcome> {
@@ -160,6 +169,10 @@ class MachineImpl implements Machine {
 
   whatIf(ref: string, edit: WhatIfEdit): Promise<WhatIfResult> {
     return whatIf(this.core, ref, edit);
+  }
+
+  effectivePlants(ref: string, opts?: EffectivePlantsOptions): Promise<EffectivePlants> {
+    return effectivePlants(this.core, ref, opts);
   }
 
   parseBlocks(words: readonly string[]): Promise<Block[]> {

@@ -14,10 +14,10 @@ import type { ChangeOptions, ChangeOutcome, LoopState, PlantVariant, RevisionKin
  * loop built on it. Anything thrown inside rolls the whole change back.
  */
 
-/** A change to a loop's state; `apply` may throw UserError to refuse it. */
+/** A change to a loop's state; `apply` may throw UserError to refuse it, and may name the kind from what it changed. */
 export interface ChangeSpec {
   readonly kind: RevisionKind;
-  apply(latest: LoopState, ref: string): { state: LoopState; summary: string };
+  apply(latest: LoopState, ref: string): { state: LoopState; summary: string; kind?: RevisionKind };
 }
 
 function checkBase(ref: string, head: RevisionHeadRow, opts: ChangeOptions): number {
@@ -67,8 +67,8 @@ export async function applyChange(core: Core, ref: string, opts: ChangeOptions, 
     const head = core.sql.head(loop.id);
     if (!head) throw new Error(`${ref} has no revision`);
     const parent = checkBase(ref, head, opts);
-    const { state, summary } = spec.apply(decodeState(head.state_json), ref);
-    const row = appendRevision(core, loop, head.number + 1, parent, spec.kind, state, summary, opts);
+    const { state, summary, kind } = spec.apply(decodeState(head.state_json), ref);
+    const row = appendRevision(core, loop, head.number + 1, parent, kind ?? spec.kind, state, summary, opts);
     return recheckFrom(core, loop, row, ev);
   });
 }

@@ -67,6 +67,18 @@ export function parseRequirement(text: string, unit: FreqUnit): Requirement {
 
 const ERROR_KEYS: Record<string, MetricKey> = { estep: 'kp', eramp: 'kv', eparab: 'ka' };
 
+/**
+ * The requirement key a `--drop` word means, lower-cased: a steady-state error
+ * ("estep", "eramp<=") is stored as its error constant's minimum, so it means
+ * "kp>=", "kv>=" or "ka>="; any other word is itself ("pm", "fc<=").
+ */
+export function dropKey(word: string): string {
+  const k = word.trim().toLowerCase();
+  const m = /^([a-z]+)(<=)?$/.exec(k);
+  const metric = m ? ERROR_KEYS[m[1]!] : undefined;
+  return metric === undefined ? k : `${metric}>=`;
+}
+
 /** Reads a limit in the metric's base unit. */
 function parseValue(kind: Kind, raw: string, unit: FreqUnit, where: string): number {
   if (kind === 'freq') return parseFrequencyRadS(raw, unit, where);

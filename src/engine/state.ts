@@ -2,6 +2,7 @@ import type { Compensator } from '../model/blocks.js';
 import { UserError } from '../model/errors.js';
 import type { Requirement } from '../model/requirements.js';
 import { canonicalJson, hashText, parseStored } from './canonical-json.js';
+import { dropKey } from './requirement-syntax.js';
 import type { LoopState, PlantVariant } from './types.js';
 
 /** The variant a new loop's first plant gets unless named. */
@@ -55,13 +56,13 @@ export function withRequirements(s: LoopState, reqs: readonly Requirement[]): Lo
   return { ...s, requirements: out };
 }
 
-/** Drops requirements matching "pm" (both directions) or "pm>=" (one). */
+/** Drops requirements matching "pm" (both directions) or "pm>=" (one); "estep"/"eramp"/"eparab" drop kp/kv/ka limits. */
 export function withoutRequirements(s: LoopState, key: string, ref: string): LoopState {
-  const k = key.trim().toLowerCase();
+  const k = dropKey(key);
   const keep = s.requirements.filter((r) => !(r.metric === k || requirementKey(r) === k));
   if (keep.length === s.requirements.length) {
     const have = s.requirements.map(requirementKey).join(', ') || 'none';
-    throw new UserError(`${ref} has no requirement '${key}' to drop; it has: ${have} (drop by metric, e.g. pm, or by metric and direction, e.g. fc<=)`);
+    throw new UserError(`${ref} has no requirement '${key}' to drop; it has: ${have} (drop by metric, e.g. pm, by metric and direction, e.g. fc<=, or by error, e.g. eramp)`);
   }
   return { ...s, requirements: keep };
 }

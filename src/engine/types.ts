@@ -215,17 +215,59 @@ export interface LoopDiff {
   readonly metrics: readonly MetricDelta[];
 }
 
-/** An unsaved edit evaluated for live editing; nothing is written. */
-export interface WhatIfEdit {
-  /** The whole compensator to try (replaces the saved one). */
+/** An edit of a loop's compensator and/or requirements: previewed by `whatIf`, saved by `applyEdit`. */
+export interface LoopEdit {
+  /** The whole compensator (replaces the saved one). */
   readonly compensator?: readonly BlockInput[];
+  /** Marks the compensator ideal (improper allowed); omitted: the saved compensator's flag is kept. */
   readonly ideal?: boolean;
-  /** The complete requirement list to try (replaces the saved one; [] for none). */
+  /** The complete requirement list (replaces the saved one; [] for none). */
   readonly requirements?: readonly RequirementInput[];
 }
+
+/** An unsaved edit evaluated for live editing; nothing is written. */
+export type WhatIfEdit = LoopEdit;
 
 export interface WhatIfResult {
   readonly loop: LoopResult;
   /** Outer loops as they would be with the edit. */
   readonly dependants: readonly LoopResult[];
+}
+
+/** Which state of a loop `effectivePlants` forms plants for (default: the latest revision). */
+export interface EffectivePlantsOptions {
+  /** A saved revision of the loop. */
+  readonly revision?: number;
+  /** An unsaved state of the loop (a draft); the other loops stay at their latest revisions. */
+  readonly state?: LoopState;
+}
+
+/** The plant one variant of a loop controls. */
+export interface VariantPlant {
+  readonly variant: string;
+  /** Own plant, behind the closed inner loop for an outer loop (as `check` forms it). */
+  readonly tf: TransferFunction;
+  /** How it was formed, e.g. a delayed inner loop entering as a Pade approximant. */
+  readonly warnings: readonly string[];
+  /** The inner loop's variant used with this one; null without an inner loop. */
+  readonly innerVariant: string | null;
+  /** That inner variant's closed-loop bandwidth in its fresh result (what `sep` compares with); null when none. */
+  readonly innerBandwidthRadS: number | null;
+}
+
+/** What design and curves need of a loop: its state and the plant of each variant. */
+export interface EffectivePlants {
+  readonly loop: string;
+  /** The revision the state is from (for a draft: the latest, which the draft is based on). */
+  readonly revision: number;
+  /** Plants as typed, requirements and compensator. */
+  readonly state: LoopState;
+  /** Default variant first, in the order `check` lists them. */
+  readonly variants: readonly VariantPlant[];
+  /** Every variant's warnings, once each. */
+  readonly warnings: readonly string[];
+  /** "AXIS/LOOP" of the inner loop, or null. */
+  readonly inner: string | null;
+  /** Inner bandwidth for the default variant (variants[0]); null without an inner loop or bandwidth. */
+  readonly innerBandwidthRadS: number | null;
 }

@@ -1,27 +1,25 @@
 import { axisGraph, findLoop, type Core } from './core.js';
-import { makeCompensator, parseBlocks, parseRequirements } from './inputs.js';
+import { editState, parseEdit } from './edit.js';
 import { loadEvaluator, recheck, type StateOverride } from './recheck.js';
-import { decodeState, withCompensator } from './state.js';
+import { decodeState } from './state.js';
 import type { LoopState, WhatIfEdit, WhatIfResult } from './types.js';
 
 /**
  * Evaluates an unsaved edit of a loop (compensator and/or the complete list of
- * requirements) and the outer loops it would affect. Reads one consistent
- * snapshot and writes nothing: the edited loop and its dependants are analysed
- * as overrides whose results are never looked up or stored.
+ * requirements, applied exactly as `applyEdit` would save it) and the outer
+ * loops it would affect. Reads one consistent snapshot and writes nothing: the
+ * edited loop and its dependants are analysed as overrides whose results are
+ * never looked up or stored.
  */
 export async function whatIf(core: Core, ref: string, edit: WhatIfEdit): Promise<WhatIfResult> {
   const unit = core.unit();
-  const comp = edit.compensator === undefined ? null : makeCompensator(await parseBlocks(edit.compensator, unit), edit.ideal === true, unit);
-  const reqs = edit.requirements === undefined ? null : edit.requirements.length === 0 ? [] : parseRequirements(edit.requirements, unit);
+  const parsed = await parseEdit(edit, unit);
   const ev = await loadEvaluator();
   const read = core.sql.db.transaction(() => {
     const loop = findLoop(core, ref);
     const graph = axisGraph(core, loop.axis_id);
     const headState = (id: number) => decodeState(core.sql.revision(id, graph.head(id).number)!.state_json);
-    let state: LoopState = headState(loop.id);
-    if (comp !== null) state = withCompensator(state, comp);
-    if (reqs !== null) state = { ...state, requirements: reqs };
+    const state: LoopState = editState(headState(loop.id), parsed, unit);
     const deps = graph.dependants(loop.id);
     const overrides = new Map<number, StateOverride>([[loop.id, { state, revision: graph.head(loop.id).number, inputHash: null }]]);
     for (const d of deps) overrides.set(d, { state: headState(d), revision: graph.head(d).number, inputHash: null });

@@ -72,12 +72,15 @@ export function overviewRowsOf(rows: readonly OverviewRow[], results: ReadonlyMa
   });
 }
 
-/** A revision for the history list; `status` only where it is known (the head's fresh result). */
-export function revisionOf(r: RevisionInfo, status: RevisionVM['status']): RevisionVM {
+/** A revision for the history list with a status: the one it was saved with unless another is given. */
+export function revisionOf(r: RevisionInfo, status: RevisionVM['status'] = r.status): RevisionVM {
   return { revision: r.number, author: r.author, at: r.time, note: r.note, kind: r.kind, status };
 }
 
-/** History newest first; the head carries the loop's current status. */
+/**
+ * History newest first, each revision with the status it was saved with; a head
+ * saved without one (loaded from a dump) shows the loop's current status.
+ */
 export function historyOf(d: LoopDetail): RevisionVM[] {
-  return [...d.history].reverse().map((r) => revisionOf(r, r.number === d.result.revision ? d.result.status : null));
+  return [...d.history].reverse().map((r) => revisionOf(r, r.status ?? (r.number === d.result.revision ? d.result.status : null)));
 }

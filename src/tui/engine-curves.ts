@@ -3,8 +3,7 @@ import { factorTf } from '../analysis/factors.js';
 import { stepResponse } from '../analysis/step.js';
 import { tfSeries } from '../analysis/tf.js';
 import { compensatorTf } from '../design/blocks-tf.js';
-import { Cascade } from '../engine/cascade.js';
-import type { LoopResult, LoopState, Machine } from '../engine/index.js';
+import type { EffectivePlantsOptions, LoopResult, Machine } from '../engine/index.js';
 import type { Compensator } from '../model/blocks.js';
 import type { BodeVM, StepVM } from './view-model.js';
 
@@ -13,18 +12,6 @@ import type { BodeVM, StepVM } from './view-model.js';
  * closed-loop step of each variant, computed by the analysis core on the plant
  * the loop really sees (behind its closed inner loops, as the engine forms it).
  */
-
-/** A cascade of the machine's current loops, with one loop's state replaced (a draft or an old revision). */
-export function cascadeFor(m: Machine, ref: string, override?: LoopState): { cascade: Cascade; id: number } {
-  const loops = m.listLoops();
-  const index = new Map(loops.map((l, i) => [l.ref, i]));
-  const cascade = new Cascade((i) => {
-    const l = loops[i]!;
-    const state = l.ref === ref && override ? override : m.revision(l.ref).state;
-    return { ref: l.ref, state, innerId: l.inner === null ? null : (index.get(l.inner) ?? null) };
-  });
-  return { cascade, id: index.get(ref)! };
-}
 
 // Enough points for a smooth sketch at any window width; the sketch resamples them.
 const POINTS_PER_DECADE = 60;
@@ -52,14 +39,18 @@ export function curveVariantsOf(r: LoopResult): CurveVariant[] {
   );
 }
 
-/** Open-loop Bode data and step response of each variant with compensator `comp`. */
-export function loopCurves(m: Machine, ref: string, comp: Compensator, variants: readonly CurveVariant[], override?: LoopState): { bode: BodeVM[]; step: StepVM[] } {
-  const { cascade, id } = cascadeFor(m, ref, override);
+/**
+ * Open-loop Bode data and step response of each variant with compensator `comp`,
+ * on the loop's plants at its latest revision, or at `at` (a saved revision or a draft state).
+ */
+export async function loopCurves(m: Machine, ref: string, comp: Compensator, variants: readonly CurveVariant[], at?: EffectivePlantsOptions): Promise<{ bode: BodeVM[]; step: StepVM[] }> {
+  const plants = await m.effectivePlants(ref, at);
   const c = compensatorTf(comp);
   const bode: BodeVM[] = [];
   const step: StepVM[] = [];
   for (const v of variants) {
-    const plant = cascade.plant(id, cascade.resolve(id, v.variant)).tf;
+    // A variant these plants lack (added after an old revision) is the loop's default one, as the engine resolves it.
+    const plant = (plants.variants.find((p) => p.variant === v.variant) ?? plants.variants[0]!).tf;
     const f = factorTf(tfSeries(c, plant));
     const marks = [...v.crossoversRadS, ...v.phaseCrossoversRadS].filter((w) => w > 0 && Number.isFinite(w));
     let [lo, hi] = frequencyRangeRadS(f, marks);

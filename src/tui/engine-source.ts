@@ -1,7 +1,5 @@
 import { ConflictError, openMachine, type LoopResult, type Machine } from '../engine/index.js';
 import { UserError } from '../model/errors.js';
-import { formatBlock } from '../engine/block-syntax.js';
-import { formatRequirement } from '../engine/requirement-syntax.js';
 import { checksOf, historyOf, overviewRowsOf, revisionOf, variantsOf } from './engine-adapt.js';
 import { proposalNote, proposeFor, tuneMethods } from './engine-tune.js';
 import { curveVariantsOf, loopCurves, type CurveVariant } from './engine-curves.js';
@@ -42,7 +40,7 @@ export class EngineSource implements DashSource {
   async loop(loopId: string): Promise<LoopDetailVM> {
     const d = await this.m.loopDetail(loopId);
     const head = d.history[d.history.length - 1] ?? d.info.head;
-    const { bode, step } = loopCurves(this.m, loopId, d.state.compensator, curveVariantsOf(d.result));
+    const { bode, step } = await loopCurves(this.m, loopId, d.state.compensator, curveVariantsOf(d.result));
     const error = d.result.variants.find((v) => v.error !== undefined)?.error;
     const names = d.result.variants.map((v) => v.variant);
     const order = (v: string) => (names.includes(v) ? names.indexOf(v) : names.length);
@@ -67,13 +65,13 @@ export class EngineSource implements DashSource {
   async compare(loopId: string, revA: number, revB: number): Promise<CompareVM> {
     const diff = await this.m.diff(loopId, revA, revB);
     // Both revisions in today's cascade, as the diff analysed them; the crossover it reports is marked.
-    const curves = (n: number, side: 'from' | 'to') => {
+    const curves = async (n: number, side: 'from' | 'to') => {
       const state = this.m.revision(loopId, n).state;
       const variants: CurveVariant[] = [...new Set(diff.metrics.map((d) => d.variant))].map((variant) => {
         const fc = diff.metrics.find((d) => d.variant === variant && d.metric === 'crossoverRadS')?.[side] ?? null;
         return { variant, crossoversRadS: fc === null ? [] : [fc], phaseCrossoversRadS: [], stable: false, finalValue: 1 };
       });
-      return loopCurves(this.m, loopId, state.compensator, variants, state).bode;
+      return (await loopCurves(this.m, loopId, state.compensator, variants, { revision: n })).bode;
     };
     return {
       loopId, unit: this.m.settings().unit,
@@ -82,7 +80,7 @@ export class EngineSource implements DashSource {
       changes: diff.changes, deltas: diff.metrics,
       blocksA: this.m.revision(loopId, revA).state.compensator.blocks,
       blocksB: this.m.revision(loopId, revB).state.compensator.blocks,
-      bodeA: curves(revA, 'from'), bodeB: curves(revB, 'to'),
+      bodeA: await curves(revA, 'from'), bodeB: await curves(revB, 'to'),
     };
   }
 
@@ -90,7 +88,7 @@ export class EngineSource implements DashSource {
     try {
       const r = await this.m.whatIf(loopId, { compensator: draft.blocks, requirements: draft.requirements });
       const blocks = await this.m.parseBlocks(draft.blocks);
-      const { bode } = loopCurves(this.m, loopId, { blocks }, curveVariantsOf(r.loop));
+      const { bode } = await loopCurves(this.m, loopId, { blocks }, curveVariantsOf(r.loop));
       return { ok: true, status: r.loop.status, variants: variantsOf(r.loop), checks: checksOf(r.loop), bode };
     } catch (e) {
       if (e instanceof UserError) return { ok: false, error: e.message };
@@ -99,32 +97,9 @@ export class EngineSource implements DashSource {
   }
 
   async save(loopId: string, draft: DraftVM, baseRevision: number, note: string): Promise<SaveResultVM> {
-    try {
-      const rev = this.m.revision(loopId, baseRevision).state;
-      const unit = this.m.settings().unit;
-      const blocks = await this.m.parseBlocks(draft.blocks);
-      const reqs = this.m.parseRequirements(draft.requirements);
-      const compChanged = blocks.map((b) => formatBlock(b, unit)).join(' ') !== rev.compensator.blocks.map((b) => formatBlock(b, unit)).join(' ');
-      const before = new Set(rev.requirements.map((r) => formatRequirement(r, unit)));
-      const after = new Set(reqs.map((r) => formatRequirement(r, unit)));
-      const dropped = rev.requirements.filter((r) => !after.has(formatRequirement(r, unit))).map((r) => `${r.metric}${r.op}`);
-      const added = reqs.filter((r) => !before.has(formatRequirement(r, unit)));
-      let base = baseRevision;
-      const opts = () => ({ base, note, ...this.by() });
-      // One revision per kind of change, each based on the one before: the first carries the user's base,
-      // so a concurrent change by someone else is refused before anything is written.
-      if (compChanged) base = (await this.m.setCompensator(loopId, blocks, { ...opts(), ideal: rev.compensator.ideal === true })).revision.number;
-      for (const key of dropped.filter((k) => !added.some((r) => `${r.metric}${r.op}` === k))) {
-        base = (await this.m.dropRequirements(loopId, key, opts())).revision.number;
-      }
-      if (added.length > 0) base = (await this.m.setRequirements(loopId, added, opts())).revision.number;
-      if (base === baseRevision) return { ok: false, conflict: false, message: 'nothing changed: the draft equals the saved loop' };
-      return { ok: true, revision: base };
-    } catch (e) {
-      if (e instanceof ConflictError) return { ok: false, conflict: true, message: e.message };
-      if (e instanceof UserError) return { ok: false, conflict: false, message: e.message };
-      throw e;
-    }
+    // One revision for the whole draft, based on the revision it was read from: a change by someone
+    // else since is refused as a conflict, and an unchanged draft is refused with the engine's reason.
+    return this.write(() => this.m.applyEdit(loopId, { compensator: draft.blocks, requirements: draft.requirements }, { base: baseRevision, note, ...this.by() }));
   }
 
   tuneMethods(): readonly TuneMethodVM[] {

@@ -1,5 +1,4 @@
 import { loopStatus } from '../analysis/requirements.js';
-import { readStoredLoop } from '../cli/commands/tune-store.js';
 import { propose } from '../design/propose.js';
 import { TUNE_METHODS, type TuneMethod } from '../design/tune-options.js';
 import { formatWorksheet } from '../design/worksheet.js';
@@ -10,8 +9,9 @@ import type { ProposalVM, TuneMethodVM } from './view-model.js';
 
 /**
  * The Tune screen's link to the design assistant: the same `propose` the `tune`
- * command runs, on the plants the loop really controls (read the same way), so a
- * proposal on screen is the one `loopledger tune` would print.
+ * command runs, on the plants the loop really controls (from the engine's
+ * effectivePlants, as the command reads them), so a proposal on screen is the
+ * one `loopledger tune` would print.
  */
 
 const LABELS: Record<TuneMethod, string> = {
@@ -32,8 +32,9 @@ export function tuneMethods(): TuneMethodVM[] {
 export async function proposeFor(m: Machine, ref: string, method: string): Promise<ProposalVM> {
   if (!(TUNE_METHODS as readonly string[]).includes(method)) return { ok: false, error: `unknown method '${method}'` };
   try {
-    const loop = await readStoredLoop(m, ref);
-    const p = propose(method as TuneMethod, loop.plants, loop.state.compensator.blocks, loop.state.requirements, {
+    const loop = await m.effectivePlants(ref);
+    const plants = loop.variants.map((v) => ({ name: v.variant, tf: v.tf }));
+    const p = propose(method as TuneMethod, plants, loop.state.compensator.blocks, loop.state.requirements, {
       innerBandwidthRadS: loop.innerBandwidthRadS, ideal: loop.state.compensator.ideal === true,
     });
     const variants = p.perVariant.map((v) => ({

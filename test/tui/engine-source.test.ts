@@ -63,6 +63,8 @@ describe('engine source', () => {
     expect(d.revision).toBe(3);
     expect(d.history.map((r) => r.revision)).toEqual([3, 2, 1]);
     expect(d.history[0]!.status).toBe('fail');
+    // Each revision with the status it was saved with: gain 4 passed until pm>=45 (PM 28 deg) came in.
+    expect(d.history.map((r) => [r.revision, r.kind, r.status])).toEqual([[3, 'spec', 'fail'], [2, 'comp', 'pass'], [1, 'create', 'pass']]);
     expect(d.checks).toEqual([expect.objectContaining({ metric: 'pm', pass: false })]);
     expect(d.blocks).toEqual([{ kind: 'gain', k: 4 }]);
     const b = d.bode[0]!;
@@ -87,24 +89,28 @@ describe('engine source', () => {
     expect((await src.loop('X/fast')).revision).toBe(before);
   });
 
-  it('saves a draft as revisions based on the one it was read from; a stale base is a conflict', async () => {
+  it('saves a draft as one revision based on the one it was read from; a stale base is a conflict', async () => {
     const a = open('ana');
     const b = open('bo');
     const vb = b.dataVersion();
     const saved = await a.save('X/fast', { unit: 'rad', blocks: ['gain:1'], requirements: ['pm>=50', 'gm>=6dB'] }, 3, 'less gain, tighter spec');
-    // A compensator change and a requirement change: two revisions (pm>= is replaced in place).
-    expect(saved).toEqual({ ok: true, revision: 5 });
+    // A compensator change and a requirement change together: one revision of kind 'edit'.
+    expect(saved).toEqual({ ok: true, revision: 4 });
     expect(b.dataVersion()).not.toBe(vb);
     const d = await b.loop('X/fast');
     expect(d.blocks).toEqual([{ kind: 'gain', k: 1 }]);
     expect(d.requirements.map((r) => r.text).sort()).toEqual(['gm>=6dB', 'pm>=50']);
-    expect(d.history.slice(0, 2).map((r) => r.kind)).toEqual(['spec', 'comp']);
+    // Gain 1: PM 51.8 deg >= 50, and the phase of 1/(s(s+1)) never reaches -180 deg (no finite gain margin).
+    expect(d.history.slice(0, 2).map((r) => [r.revision, r.kind, r.status])).toEqual([[4, 'edit', 'pass'], [3, 'spec', 'fail']]);
+    expect(d.note).toBe('less gain, tighter spec');
     const stale = await b.save('X/fast', { unit: 'rad', blocks: ['gain:2'], requirements: ['pm>=50', 'gm>=6dB'] }, 3, 'from an old screen');
     expect(stale).toMatchObject({ ok: false, conflict: true });
-    expect(!stale.ok && stale.message).toMatch(/revision 5 was saved by ana/);
-    expect((await b.loop('X/fast')).revision).toBe(5);
-    const same = await b.save('X/fast', { unit: 'rad', blocks: ['gain:1'], requirements: ['pm>=50', 'gm>=6dB'] }, 5, 'nothing');
+    expect(!stale.ok && stale.message).toMatch(/revision 4 was saved by ana/);
+    expect((await b.loop('X/fast')).revision).toBe(4);
+    const same = await b.save('X/fast', { unit: 'rad', blocks: ['gain:1'], requirements: ['pm>=50', 'gm>=6dB'] }, 4, 'nothing');
     expect(same).toMatchObject({ ok: false, conflict: false });
+    expect(!same.ok && same.message).toMatch(/nothing to save/);
+    expect((await b.loop('X/fast')).revision).toBe(4);
   });
 
   it('compares two revisions: what changed and what it did to the phase margin', async () => {

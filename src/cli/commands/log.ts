@@ -1,11 +1,17 @@
 import { JSON_OPT, parseCommand, type CommandSpec } from '../args.js';
 import type { CommandContext } from '../context.js';
-import { jsonText, shortTime, table } from '../output.js';
+import { jsonText, shortTime, statusText, table } from '../output.js';
 import { withMachine } from '../store.js';
 
 const SPEC: CommandSpec = {
   name: 'log',
-  usage: 'usage: loopledger log AXIS/LOOP [--json]\n\nEvery revision of a loop, oldest first: number, time (UTC), author, what changed, and the note.',
+  usage: [
+    'usage: loopledger log AXIS/LOOP [--json]',
+    '',
+    'Every revision of a loop, oldest first: number, time (UTC), author, the status it was checked',
+    'with when it was saved (- where none was stored, e.g. older revisions of a loaded dump), what',
+    'changed, and the note.',
+  ].join('\n'),
   options: { ...JSON_OPT },
   positionals: { min: 1, max: 1, what: 'the loop name AXIS/LOOP' },
 };
@@ -26,8 +32,8 @@ export async function run(args: string[], ctx: CommandContext): Promise<number> 
     const revs = m.log(p.positionals[0]!);
     if (p.flag('json')) ctx.out(jsonText(revs));
     else {
-      const rows = revs.map((r) => [String(r.number), shortTime(r.time), r.author, clip(r.summary, CHANGE_WIDTH)]);
-      const [head, ...lines] = table([['rev', 'time (UTC)', 'by', 'change'], ...rows], [0]);
+      const rows = revs.map((r) => [String(r.number), shortTime(r.time), r.author, r.status === null ? '-' : statusText(r.status), clip(r.summary, CHANGE_WIDTH)]);
+      const [head, ...lines] = table([['rev', 'time (UTC)', 'by', 'status then', 'change'], ...rows], [0]);
       // The note goes on its own line under its revision, so long notes never push the table apart.
       ctx.out([head!, ...lines.flatMap((l, i) => (revs[i]!.note === '' ? [l] : [l, `     "${revs[i]!.note}"`]))].join('\n'));
     }

@@ -12,7 +12,6 @@ import { jsonText } from '../output.js';
 import { outcomeLines } from '../present.js';
 import { withMachine } from '../store.js';
 import { blockWords, proposalJson, proposalLines } from './tune-view.js';
-import { readStoredLoop } from './tune-store.js';
 
 const SPEC: CommandSpec = {
   name: 'tune',
@@ -164,9 +163,11 @@ export async function run(args: string[], ctx: CommandContext): Promise<number> 
   if (p.flag('even-if-failing') && !p.flag('apply')) throw new UserError('--even-if-failing only goes with --apply');
   return withMachine(ctx, change.author, async (machine) => {
     const unit = machine.settings().unit;
-    const loop = await readStoredLoop(machine, ref);
+    // The plants the loop really controls (behind its closed inner loop), formed by the engine as check forms them.
+    const loop = await machine.effectivePlants(ref);
+    const plants: PlantVariant[] = loop.variants.map((v) => ({ name: v.variant, tf: v.tf }));
     const opts: TuneOptions = { ...tuneOptions(p, unit), innerBandwidthRadS: loop.innerBandwidthRadS, ideal: loop.state.compensator.ideal === true };
-    const proposal = propose(m, loop.plants, loop.state.compensator.blocks, loop.state.requirements, opts);
+    const proposal = propose(m, plants, loop.state.compensator.blocks, loop.state.requirements, opts);
     const title = `tune ${ref} ${m}: ${TITLES[m]} (from revision ${loop.revision})`;
     const warnLines = loop.warnings.map((w) => `warning: ${w}`);
     if (!p.flag('apply')) {
