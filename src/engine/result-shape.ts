@@ -27,6 +27,10 @@ const STEP_FIELDS: Record<keyof StepMetrics, 'num' | 'num?'> = {
   overshootPct: 'num', undershootPct: 'num', riseTimeS: 'num?', settlingTimeS: 'num?', peakTimeS: 'num?', finalValue: 'num', peakEffort: 'num',
 };
 
+// As lists, so that checking a row allocates nothing (check reads every loop's row).
+const METRIC_LIST = Object.entries(METRIC_FIELDS) as readonly [string, Field][];
+const STEP_LIST = Object.entries(STEP_FIELDS) as readonly [string, Field][];
+
 const METRIC_KEYS: readonly MetricKey[] = ['pm', 'gm', 'fc', 'bw', 'ms', 'mt', 'dm', 'os', 'tr', 'ts', 'kp', 'kv', 'ka', 'effort', 'hf', 'sep'];
 const STATUSES = ['pass', 'fail', 'unstable', 'error'];
 
@@ -36,7 +40,18 @@ const isObj = (v: unknown): v is Obj => typeof v === 'object' && v !== null && !
 // JSON.parse never yields NaN; the stored form writes infinities as 1e999, read back as numbers.
 const isNum = (v: unknown): v is number => typeof v === 'number' && !Number.isNaN(v);
 const isStr = (v: unknown): v is string => typeof v === 'string';
-const every = (v: unknown, ok: (x: unknown) => boolean): boolean => Array.isArray(v) && v.every(ok);
+function every(v: unknown, ok: (x: unknown) => boolean): boolean {
+  if (!Array.isArray(v)) return false;
+  for (const x of v) if (!ok(x)) return false;
+  return true;
+}
+
+function fieldsOk(o: Obj, fields: readonly [string, Field][]): boolean {
+  for (const [k, f] of fields) if (!fieldOk(f, o[k])) return false;
+  return true;
+}
+
+const isPole = (p: unknown): boolean => isObj(p) && isNum(p.re) && isNum(p.im);
 
 function fieldOk(kind: Field, v: unknown): boolean {
   switch (kind) {
@@ -45,13 +60,13 @@ function fieldOk(kind: Field, v: unknown): boolean {
     case 'num?': return v === null || isNum(v);
     case 'nums': return every(v, isNum);
     case 'strings': return every(v, isStr);
-    case 'poles': return every(v, (p) => isObj(p) && isNum(p.re) && isNum(p.im));
-    case 'step?': return v === null || (isObj(v) && Object.entries(STEP_FIELDS).every(([k, f]) => fieldOk(f, v[k])));
+    case 'poles': return every(v, isPole);
+    case 'step?': return v === null || (isObj(v) && fieldsOk(v, STEP_LIST));
   }
 }
 
 function metricsOk(m: unknown): boolean {
-  return isObj(m) && Object.entries(METRIC_FIELDS).every(([k, f]) => fieldOk(f, m[k]));
+  return isObj(m) && fieldsOk(m, METRIC_LIST);
 }
 
 function requirementResultOk(r: unknown): boolean {
