@@ -1,6 +1,5 @@
 import type { TransferFunction } from '../model/tf.js';
-import { factoredAt, type Factored } from './factors.js';
-import { cornerFrequenciesRadS } from './freq.js';
+import { factoredAt, middleScaleRadS, type Factored } from './factors.js';
 import { imagCrossInW2, magSquaredInW2 } from './jw-polys.js';
 import type { LoopSamples } from './loop-samples.js';
 import { polyIsZero, polyScaleVariable, polySub } from './poly.js';
@@ -24,13 +23,9 @@ export function wrapPi(x: number): number {
   return r === -Math.PI ? Math.PI : r;
 }
 
-/** A power of two near the geometric middle of the loop's corner frequencies, to keep polynomial coefficients moderate. */
+/** The scale used for the crossover polynomials: that of the factored form, or computed from its roots. */
 function scaleRadS(f: Factored): number {
-  const ws = cornerFrequenciesRadS({ ...f, delayS: 0 });
-  if (ws.length === 0) return 1;
-  const lo = Math.min(...ws);
-  const hi = Math.max(...ws);
-  return 2 ** Math.round(Math.log2(Math.sqrt(lo * hi)));
+  return f.poly?.w0 ?? middleScaleRadS([...f.zeros, ...f.poles].map((r) => Math.hypot(r.re, r.im)));
 }
 
 /** Loop polynomials at s = w0 * sigma, sharing one normalising factor. */

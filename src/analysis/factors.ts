@@ -30,6 +30,13 @@ function lead(p: Poly): number {
   return t[t.length - 1]!;
 }
 
+/** A power of two near the geometric middle of the given frequencies (1 when none): the scale s = w0 sigma that keeps coefficients moderate. */
+export function middleScaleRadS(magsRadS: readonly number[]): number {
+  const ms = magsRadS.filter((m) => m > 0 && Number.isFinite(m));
+  if (ms.length === 0) return 1;
+  return 2 ** Math.round(0.5 * (Math.log2(Math.min(...ms)) + Math.log2(Math.max(...ms))));
+}
+
 /** Polynomial scaled to sigma = s/w0 and divided by its largest coefficient: [coefficients, ln(divisor)]. */
 function scaledPoly(p: Poly, w0: number): [number[], number] {
   const q = polyScaleVariable(polyTrim(p), w0);
@@ -44,8 +51,7 @@ export function factorTf(tf: TransferFunction, zeros?: readonly Complex[], poles
   const clean = (rs: readonly Complex[]) => rs.map((r) => ({ re: r.re + 0, im: r.im + 0 }));
   const z = zeroNum ? [] : clean(zeros ?? polyRoots(tf.num));
   const p = clean(poles ?? polyRoots(tf.den));
-  const mags = [...z, ...p].map((r) => Math.hypot(r.re, r.im)).filter((m) => m > 0 && Number.isFinite(m));
-  const w0 = mags.length === 0 ? 1 : 2 ** Math.round(Math.log2(Math.sqrt(Math.min(...mags) * Math.max(...mags))));
+  const w0 = middleScaleRadS([...z, ...p].map((r) => Math.hypot(r.re, r.im)));
   const [pn, ln] = scaledPoly(tf.num, w0);
   const [pd, ld] = scaledPoly(tf.den, w0);
   const poly = zeroNum || !Number.isFinite(ln - ld) ? undefined : { num: pn, den: pd, w0, logScale: ln - ld };

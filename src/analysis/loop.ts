@@ -44,6 +44,9 @@ function allPhaseCrossovers(loop: TransferFunction, f: Factored, s: LoopSamples,
   if (f.delayS > 0) {
     const v = new Float64Array(4);
     finite = finite.filter((w) => Math.exp(factoredAt(f, w, v)[0]!) >= DELAY_LIST_MIN_MAG);
+    if (f.poles.length === f.zeros.length && Math.abs(f.gain) >= DELAY_LIST_MIN_MAG && finite.length > 0) {
+      warnings.push(`delay with |L(inf)| > 0: phase crossovers never end; listed up to ${finite[finite.length - 1]!.toPrecision(4)} rad/s`);
+    }
     if (finite.length > DELAY_LIST_MAX) {
       warnings.push(`delay: only the first ${DELAY_LIST_MAX} phase crossovers (up to ${finite[DELAY_LIST_MAX - 1]!.toPrecision(4)} rad/s) are listed`);
       finite = finite.slice(0, DELAY_LIST_MAX);
@@ -65,6 +68,19 @@ function loopRoots(plant: TransferFunction, comp: TransferFunction): { zeros: Co
   };
 }
 
+/** Poles and zeros must lie where double precision can still resolve a loop (rad/s). */
+const ROOT_RANGE_RAD_S: readonly [number, number] = [1e-15, 1e15];
+
+/** Refuses roots outside ROOT_RANGE_RAD_S (a numerical integrator should be written as s). */
+function checkRootRange(rs: readonly Complex[]): void {
+  for (const r of rs) {
+    const m = Math.hypot(r.re, r.im);
+    if (m !== 0 && (m < ROOT_RANGE_RAD_S[0] || m > ROOT_RANGE_RAD_S[1] || !Number.isFinite(m))) {
+      throw new UserError(`model has a pole or zero at ${m.toExponential(2)} rad/s, outside ${ROOT_RANGE_RAD_S[0]}..${ROOT_RANGE_RAD_S[1]} rad/s; rescale it (s in rad/s, time in s)`);
+    }
+  }
+}
+
 /** Refuses loops that cannot be analysed as given (one clear line each). */
 function checkInputs(plant: TransferFunction, comp: TransferFunction, ideal: boolean): void {
   if (polyIsZero(plant.den)) throw new UserError('plant: the denominator is zero');
@@ -76,12 +92,21 @@ function checkInputs(plant: TransferFunction, comp: TransferFunction, ideal: boo
   }
 }
 
-/** Full contract metrics of the unity-feedback loop C·P; `ideal` admits an improper compensator. */
-export function analyseLoop(plant: TransferFunction, comp: TransferFunction, opts: { ideal?: boolean } = {}): LoopMetrics {
+/** Options of analyseLoop. */
+export interface AnalyseOptions {
+  /** Admit an improper compensator (step metrics then say why they are missing). */
+  readonly ideal?: boolean;
+  /** Simulate the step response (default true); false leaves `step` null, for frequency-domain work only. */
+  readonly step?: boolean;
+}
+
+/** Full contract metrics of the unity-feedback loop C·P. */
+export function analyseLoop(plant: TransferFunction, comp: TransferFunction, opts: AnalyseOptions = {}): LoopMetrics {
   checkInputs(plant, comp, opts.ideal === true);
   const warnings: string[] = [];
   const loop = tfSeries(comp, plant);
   const { zeros, poles } = loopRoots(plant, comp);
+  checkRootRange([...zeros, ...poles]);
   const f = factorTf(loop, zeros, poles);
   const ec = errorConstants(loop);
   const l0 = ec.kp;
@@ -104,12 +129,14 @@ export function analyseLoop(plant: TransferFunction, comp: TransferFunction, opt
   const t0 = closedLoopDcGain(loop);
 
   let step: LoopMetrics['step'] = null;
-  try {
-    const r = stepMetrics(plant, comp, stab.poles, stab.stable);
-    step = r.metrics;
-    warnings.push(...r.warnings);
-  } catch (e) {
-    warnings.push(`step metrics unavailable: ${e instanceof Error ? e.message : String(e)}`);
+  if (opts.step !== false) {
+    try {
+      const r = stepMetrics(plant, comp, stab.poles, stab.stable);
+      step = r.metrics;
+      warnings.push(...r.warnings);
+    } catch (e) {
+      warnings.push(`step metrics unavailable: ${e instanceof Error ? e.message : String(e)}`);
+    }
   }
 
   return {

@@ -75,9 +75,12 @@ function refinedMax(f: Factored, s: LoopSamples, pick: 0 | 1): Peak {
   return peak;
 }
 
+/** Beyond this |S| or |T|, 1 + L is zero to double precision: a closed-loop pole on the axis. */
+const NUMERICALLY_INFINITE = 1e10;
+
 /** Larger of an interior peak and the two limits; ties go to the interior peak. */
 function withLimits(interior: Peak, atZero: number, atInf: number): Peak {
-  let p = interior;
+  let p = interior.value > NUMERICALLY_INFINITE ? { value: Infinity, atRadS: interior.atRadS } : interior;
   if (atZero > p.value * (1 + 1e-12)) p = { value: atZero, atRadS: 0 };
   if (atInf > p.value * (1 + 1e-12)) p = { value: atInf, atRadS: Infinity };
   return p;

@@ -22,11 +22,11 @@ export function loopStability(loop: TransferFunction, f: Factored, gainCrossover
   const degN = polyDegree(loop.num);
   const charDeg = polyDegree(polyAdd(loop.den, loop.num));
   if (loop.delayS === 0) {
-    const poles = sortPoles(closedLoopPoles(loop));
     if (charDeg < Math.max(degD, degN)) {
       warnings.push('ill-posed loop: 1 + L(inf) = 0 (the closed loop is improper)');
-      return { stable: false, poles, warnings };
+      return { stable: false, poles: charDeg >= 0 ? sortPoles(closedLoopPoles(loop)) : [], warnings };
     }
+    const poles = sortPoles(closedLoopPoles(loop));
     const c = classifyPoles(poles);
     if (c === 'marginal') warnings.push('closed-loop pole on the imaginary axis: marginally stable, counted as not stable');
     return { stable: c === 'stable', poles, warnings };

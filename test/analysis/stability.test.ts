@@ -9,6 +9,8 @@ import { tfEvalJw } from '../../src/analysis/tf.js';
 import type { Complex, TransferFunction } from '../../src/model/tf.js';
 
 const ONE: TransferFunction = { num: [1], den: [1], delayS: 0 };
+/** Frequency-domain properties only: no step simulation. */
+const FREQ = { step: false } as const;
 
 /** A random loop: stable and unstable real poles, damped pairs, optional integrator, fewer zeros than poles. */
 const loopArb = fc
@@ -70,7 +72,7 @@ describe('Nyquist (argument principle) and closed-loop poles agree on delay-free
 
   it('integrators on the axis need no special care: K/s^2 with a lead is stable, without it marginal', () => {
     expect(analyseLoop({ num: [100], den: [0, 0, 1], delayS: 0.001 }, { num: [1, 0.2], den: [1, 0.02], delayS: 0 }).stable).toBe(true);
-    const marginal = analyseLoop({ num: [100], den: [0, 0, 1], delayS: 0 }, ONE);
+    const marginal = analyseLoop({ num: [100], den: [0, 0, 1], delayS: 0 }, ONE, FREQ);
     expect(marginal.stable).toBe(false);
     expect(marginal.warnings.join(' ')).toMatch(/imaginary axis/);
   });
@@ -80,7 +82,7 @@ describe('gain margin and delay margin mean what they say (fast-check)', () => {
   it('scaling the loop gain by 10^(GM/20) puts a closed-loop pole at j w_p', () => {
     fc.assert(
       fc.property(loopArb, (loop) => {
-        const m = analyseLoop(loop, ONE);
+        const m = analyseLoop(loop, ONE, FREQ);
         const finite = m.phaseCrossoversRadS.map((w, i) => [w, m.gainMarginsDb[i]!] as const).filter(([w]) => w > 0 && Number.isFinite(w));
         for (const [w, gm] of finite) {
           const k = 10 ** (gm / 20);
@@ -96,12 +98,12 @@ describe('gain margin and delay margin mean what they say (fast-check)', () => {
   it('a delay just below the delay margin keeps the loop stable, just above it does not', () => {
     fc.assert(
       fc.property(loopArb, (loop) => {
-        const m = analyseLoop(loop, ONE);
+        const m = analyseLoop(loop, ONE, FREQ);
         fc.pre(m.stable && m.delayMarginS !== null && Number.isFinite(m.delayMarginS) && m.delayMarginS > 0);
         fc.pre(axisCloseness(m.closedLoopPoles) > 1e-3);
         const dm = m.delayMarginS!;
-        expect(analyseLoop({ ...loop, delayS: dm * 0.98 }, ONE).stable).toBe(true);
-        expect(analyseLoop({ ...loop, delayS: dm * 1.02 }, ONE).stable).toBe(false);
+        expect(analyseLoop({ ...loop, delayS: dm * 0.98 }, ONE, FREQ).stable).toBe(true);
+        expect(analyseLoop({ ...loop, delayS: dm * 1.02 }, ONE, FREQ).stable).toBe(false);
       }),
       { numRuns: 60, seed: 11 },
     );
@@ -110,7 +112,7 @@ describe('gain margin and delay margin mean what they say (fast-check)', () => {
   it('Ms is never below 1/|1 + L| anywhere (dense Horner scan), so PM >= 2 asin(1/(2 Ms)) and GM+ >= Ms/(Ms-1) hold (Skogestad & Postlethwaite, Multivariable Feedback Control, 2nd ed., Sec. 2.4.3, from memory)', () => {
     fc.assert(
       fc.property(loopArb, (loop) => {
-        const m = analyseLoop(loop, ONE);
+        const m = analyseLoop(loop, ONE, FREQ);
         fc.pre(Number.isFinite(m.peakSensitivity));
         let scanMax = 0;
         for (let i = 0; i <= 4000; i++) {
@@ -133,10 +135,10 @@ describe('frequency scaling: L(s/c) has the same margins at c times the frequenc
   it('fast-check over c from 1e-4 to 1e4, with a delay T/c', () => {
     fc.assert(
       fc.property(loopArb, fc.constantFrom(1e-4, 1e-2, 1e2, 1e4), (loop, c) => {
-        const base = analyseLoop({ ...loop, delayS: 0.001 }, ONE);
+        const base = analyseLoop({ ...loop, delayS: 0.001 }, ONE, FREQ);
         // |L(0)| = 1 makes w = 0 a tangential crossover; its neighbours are not well defined.
         fc.pre(Math.abs(Math.abs(base.kp) - 1) > 1e-6);
-        const scaled = analyseLoop({ num: polyScaleVariable(loop.num, 1 / c), den: polyScaleVariable(loop.den, 1 / c), delayS: 0.001 / c }, ONE);
+        const scaled = analyseLoop({ num: polyScaleVariable(loop.num, 1 / c), den: polyScaleVariable(loop.den, 1 / c), delayS: 0.001 / c }, ONE, FREQ);
         expect(scaled.stable).toBe(base.stable);
         expect(scaled.gainCrossoversRadS.length).toBe(base.gainCrossoversRadS.length);
         base.gainCrossoversRadS.forEach((w, i) => expect(scaled.gainCrossoversRadS[i]! / (w * c)).toBeCloseTo(1, 7));
