@@ -1,5 +1,5 @@
 import type { LoopMetrics } from '../model/metrics.js';
-import { analyseLoop } from './loop.js';
+import { analyseLoop, type AnalyseOptions } from './loop.js';
 import { parseTransferFunction } from './parse.js';
 
 /**
@@ -8,7 +8,7 @@ import { parseTransferFunction } from './parse.js';
  */
 
 /** Parses both expressions (the plant must be proper) and analyses the loop; throws ExpressionError/UserError on bad input. */
-export function analyseExpressions(plantText: string, compText: string, opts: { ideal?: boolean } = {}): LoopMetrics {
+export function analyseExpressions(plantText: string, compText: string, opts: AnalyseOptions = {}): LoopMetrics {
   const plant = parseTransferFunction(plantText, 'plant');
   const comp = parseTransferFunction(compText, 'compensator');
   return analyseLoop(plant, comp, opts);
