@@ -27,7 +27,7 @@ type Analyse = (plant: string, comp: string, opts: { ideal?: boolean }) => LoopM
 type ToJson = (m: LoopMetrics) => Record<string, unknown>;
 
 /** Loads the analysis on demand. */
-async function loadAnalysis(): Promise<{ analyse: Analyse; toJson: ToJson }> {
+export async function loadAnalysis(): Promise<{ analyse: Analyse; toJson: ToJson }> {
   const [loop, json] = await Promise.all([import('../../analysis/loop-text.js'), import('../../analysis/contract-json.js')]);
   return { analyse: loop.analyseExpressions, toJson: json.metricsToContractJson };
 }
@@ -85,8 +85,8 @@ export function summaryLines(m: LoopMetrics): string[] {
   return lines;
 }
 
-/** One batch line -> one output object (never throws). */
-function batchLine(line: string, analyse: Analyse, toJson: ToJson): Record<string, unknown> {
+/** One batch line -> one output object (never throws); exported so the benchmark runs exactly this path. */
+export function batchLine(line: string, analyse: Analyse, toJson: ToJson): Record<string, unknown> {
   let input: unknown;
   try {
     input = JSON.parse(line);
