@@ -8,7 +8,8 @@ import { buildMathjsParser } from './parse-mathjs.js';
  * Expression text -> transfer function. mathjs only tokenises and builds the tree;
  * we walk it with polynomial arithmetic on (numerator, denominator) pairs, because
  * symbolic simplification is slow on products of many factors and keeps float noise.
- * This is the only module that loads mathjs.
+ * mathjs is reached only through this module (via parse-mathjs.ts), so code that
+ * analyses stored coefficients never loads it.
  */
 
 /** Highest polynomial order we accept while building an expression (well above any servo model). */
