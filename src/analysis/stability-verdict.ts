@@ -3,6 +3,9 @@ import type { Factored } from './factors.js';
 import { polyAdd, polyDegree } from './poly.js';
 import { classifyPoles, closedLoopPoles, delayClosedLoopPoles, rhpZeroCount } from './stability.js';
 
+/** Opens the warning of a loop whose closed loop does not exist (1 + L(inf) = 0): stores report it as an error. */
+export const ILL_POSED_WARNING = 'ill-posed loop';
+
 /** The stability verdict of a loop, its closed-loop poles (approximate with a delay) and what to warn about. */
 export interface StabilityVerdict {
   readonly stable: boolean;
@@ -23,7 +26,7 @@ export function loopStability(loop: TransferFunction, f: Factored, gainCrossover
   const charDeg = polyDegree(polyAdd(loop.den, loop.num));
   if (loop.delayS === 0) {
     if (charDeg < Math.max(degD, degN)) {
-      warnings.push('ill-posed loop: 1 + L(inf) = 0 (the closed loop is improper)');
+      warnings.push(`${ILL_POSED_WARNING}: 1 + L(inf) = 0 (the closed loop is improper)`);
       return { stable: false, poles: charDeg >= 0 ? sortPoles(closedLoopPoles(loop)) : [], warnings };
     }
     const poles = sortPoles(closedLoopPoles(loop));

@@ -1,4 +1,5 @@
 import { analyseLoop } from '../analysis/loop.js';
+import { ILL_POSED_WARNING } from '../analysis/stability-verdict.js';
 import { evaluateRequirement, loopStatus, type RequirementOutcome, type VariantAnalysis } from '../analysis/requirements.js';
 import { compensatorHfGain, compensatorTf } from '../design/blocks-tf.js';
 import type { LoopStatus, RequirementResult } from '../model/requirements.js';
@@ -51,6 +52,9 @@ export function evaluateLoop(x: EvaluateInput): LoopResult {
       const plant = x.cascade.plant(x.id, variant);
       const metrics = analyseLoop(plant.tf, compTf, { ideal: state.compensator.ideal === true });
       warnings = [...plant.warnings, ...metrics.warnings];
+      // No closed loop exists at all: that is a loop that cannot be analysed, not an unstable one.
+      const illPosed = metrics.warnings.find((w) => w.startsWith(ILL_POSED_WARNING));
+      if (illPosed !== undefined) throw new Error(illPosed);
       const innerBw = innerBandwidth(x, variant);
       const reqs: RequirementResult[] = state.requirements.map((requirement) => {
         const o = evaluateRequirement(requirement, metrics, { compHfGain: hfGain, innerBandwidthRadS: innerBw.value });

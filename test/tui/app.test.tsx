@@ -171,11 +171,14 @@ describe('dashboard', () => {
   it('quits with q: keys do nothing afterwards', async () => {
     const ui = start(machine());
     await ui.see('Y');
+    expect(selectedLine(ui.frame())).toMatch(/pos/);
     await ui.press('q');
+    await new Promise((r) => setTimeout(r, 30));
     const before = ui.frame();
     await ui.press('j', 'j');
     await new Promise((r) => setTimeout(r, 30));
-    expect(selectedLine(ui.frame())).toMatch(/pos/);
+    // What ink leaves as the last frame at exit differs with CI=true (where it writes frames
+    // differently); in every environment the keys pressed after q must change nothing.
     expect(ui.frame()).toBe(before);
   });
 
