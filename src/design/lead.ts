@@ -74,6 +74,13 @@ export function designLeadBode(variants: readonly DesignVariant[], designIndex: 
   }
   const phi = s.pmDeg - pm0 + s.allowDeg;
   ws.add('phase to add', phi, 'deg');
+  if (phi <= 0) {
+    // This variant already has the margin; another one lacks it. The hand procedure has nothing
+    // to add here, so go straight to the refinement, which works on the worst variant.
+    ws.add('hand procedure on this variant: no phase to add (its margin already holds)', 0, 'deg');
+    const handCand: Candidate = { blocks: gainOnly, worstPmDeg: pmGain };
+    return refineAndFinish(variants, kf, k, s.stages ?? 1, s, ws, handCand, pm0, v);
+  }
   const n = s.stages ?? Math.max(1, Math.ceil(phi / s.maxStagePhaseDeg - 1e-9));
   ws.add('stages', n);
   ws.add('phase per stage phi_m', phi / n, 'deg');
@@ -90,6 +97,14 @@ export function designLeadBode(variants: readonly DesignVariant[], designIndex: 
   const handCand: Candidate = { blocks: hand.blocks, worstPmDeg: worstPmOver(variants, hand.blocks) };
   ws.add('phase margin of the hand design (worst variant)', handCand.worstPmDeg, 'deg');
 
+  return refineAndFinish(variants, kf, k, n, s, ws, handCand, pm0, v);
+}
+
+/** The numerical refinement after the hand procedure, and the outcome with both designs. */
+function refineAndFinish(
+  variants: readonly DesignVariant[], kf: DesignVariant['shape'], k: number, n: number, s: LeadSettings,
+  ws: Worksheet, handCand: Candidate, pm0: number, v: DesignVariant,
+): DesignOutcome {
   ws.section('refinement (added phase adjusted, gain kept)');
   const r = refineLead(variants, kf, k, n, s);
   const built = leadBlocksFor(kf, k, r.best.x, r.n)!;

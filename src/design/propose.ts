@@ -13,6 +13,7 @@ import { checkOptions, fcFromRequirements, gmFromRequirements, keptByRedesign, n
 import type { DesignOutcome, DesignVariant } from './types.js';
 import { magnitudeCrossingsRadS } from './shape.js';
 import { makeDesignVariant } from './variants.js';
+import { worstPmOver } from './refine.js';
 import { allPass, missSummary, verifyBlocks, type PlantVariant, type VariantPrediction } from './verify.js';
 import type { WorksheetStep } from './worksheet.js';
 
@@ -105,15 +106,23 @@ function missesShapeOnly(p: Proposal): boolean {
  */
 function bestOverVariants(c: ProposeContext): Proposal {
   const named = c.options.designVariant ?? null;
-  const order = named === null ? c.plants.map((_, i) => i) : [designIndex(c.plants, named)];
+  // The hand procedures read one plot: read the variant that is worst today (smallest phase
+  // margin with the present compensator) first, since that is the one the design must lift.
+  const order = named === null ? worstFirst(c) : [designIndex(c.plants, named)];
   let best: { p: Proposal; score: number } | null = null;
   for (const di of order) {
     const p = finish(c, di);
-    if (p.ok) return order.length > 1 && di > 0 ? { ...p, message: `${p.message} (designed on variant ${c.plants[di]!.name}; designs on the variants before it missed)` } : p;
+    if (p.ok) return order.length > 1 && di !== order[0] ? { ...p, message: `${p.message} (designed on variant ${c.plants[di]!.name}; designs on the variants tried before it missed)` } : p;
     const score = missCount(p);
     if (best === null || score < best.score) best = { p, score };
   }
   return best!.p;
+}
+
+/** Variant indices ordered by their phase margin under the present compensator, smallest first. */
+function worstFirst(c: ProposeContext): number[] {
+  const present = c.plants.map((p, i) => ({ i, pm: worstPmOver([makeDesignVariant(p.name, p.tf)], c.existing) }));
+  return present.sort((a, b) => a.pm - b.pm || a.i - b.i).map((x) => x.i);
 }
 
 interface ProposeContext {

@@ -98,3 +98,24 @@ describe('propose', () => {
     expect(() => propose('lead', [{ name: 'n', tf: rigid }], [], [], { pmDeg: 45, designVariant: 'hot' })).toThrow(/no plant variant 'hot'.*n/);
   });
 });
+
+describe('propose on several plant variants', () => {
+  it('reads the hand procedure off the variant that is worst today, so its lead is a real lead', () => {
+    // One plant at two loop gains, K/(s(s+2)) with K = 4 and K = 40. For K/(s(s+a)) the crossover is
+    // w_c^2 = (sqrt(a^4 + 4K^2) - a^2)/2 and PM = 90 - atan(w_c/a) (closed form, e.g. Ogata, Modern
+    // Control Engineering, 5th ed., sec. 7-7; from memory): 51.8 deg and 18 deg. The second is the worst.
+    const empty: TransferFunction = { num: [4], den: [0, 2, 1], delayS: 0 };
+    const heavy: TransferFunction = { num: [40], den: [0, 2, 1], delayS: 0 };
+    const pmOf = (k: number, a: number) => {
+      const wc = Math.sqrt((Math.sqrt(a ** 4 + 4 * k * k) - a * a) / 2);
+      return 90 - (Math.atan(wc / a) * 180) / Math.PI;
+    };
+    expect(pmOf(40, 2)).toBeLessThan(pmOf(4, 2));
+    const p = propose('lead', [{ name: 'empty', tf: empty }, { name: 'stiff-gain', tf: heavy }], [], [req('pm', '>=', 45)], {});
+    expect(p.worksheet.some((w) => /on variant stiff-gain/.test(w.label))).toBe(true);
+    const lead = p.hand!.blocks.find((b) => b.kind === 'lead');
+    expect(lead).toBeDefined();
+    if (lead?.kind === 'lead') expect(lead.zeroRadS).toBeLessThan(lead.poleRadS);
+    expect(p.ok).toBe(true);
+  });
+});
