@@ -69,10 +69,11 @@ export function parseCommand(args: readonly string[], spec: CommandSpec, ctx: Co
 }
 
 /** node:util's parse errors in our own short words. */
-function argError(e: unknown): string {
+export function argError(e: unknown): string {
   const code = (e as { code?: string }).code;
   const msg = e instanceof Error ? e.message : String(e);
   const opt = /'(-[^' ]+)/.exec(msg)?.[1] ?? '';
+  if (/ambiguous/.test(msg)) return `the value of '${opt}' starts with '-': write it joined, e.g. ${opt}=-1`;
   switch (code) {
     case 'ERR_PARSE_ARGS_UNKNOWN_OPTION':
       // A negative number or expression looks like an option to the parser: say how to pass it.

@@ -55,12 +55,19 @@ describe('loopledger calc', () => {
     ['improper compensator without --ideal', ['--plant', '1/(s+1)', '--comp', 's']],
     ['missing --plant', ['--comp', '1']],
     ['unknown option', ['--plant', '1/s', '--bogus']],
+    ['value starting with a dash, not joined', ['--plant', '1/s', '--comp', '-1']],
   ])('%s: exit 2, one line on stderr, nothing on stdout', async (_name, args) => {
     const r = await cli('calc', ...args, '--json');
     expect(r.code).toBe(2);
     expect(r.out).toBe('');
     expect(r.err.trim().split('\n')).toHaveLength(1);
     expect(r.err).toMatch(/^loopledger: /);
+  });
+
+  it('says how to write a value that starts with a dash', async () => {
+    const r = await cli('calc', '--plant', '1/s', '--comp', '-1');
+    expect(r.err).toMatch(/--comp=-1/);
+    expect((await cli('calc', '--plant', '1/(s*(s+1))', '--comp=-1', '--json')).code).toBe(0);
   });
 
   it('--ideal admits an improper compensator and says why step metrics are missing', async () => {

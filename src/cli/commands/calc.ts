@@ -1,6 +1,7 @@
 import { createReadStream, existsSync } from 'node:fs';
 import { createInterface } from 'node:readline';
 import { parseArgs } from 'node:util';
+import { argError } from '../args.js';
 import type { LoopMetrics } from '../../model/metrics.js';
 import { UserError } from '../../model/errors.js';
 import type { CommandContext, CommandModule } from '../context.js';
@@ -137,7 +138,7 @@ export async function run(args: string[], ctx: CommandContext): Promise<number> 
       allowPositionals: false,
     }));
   } catch (e) {
-    throw new UserError(`calc: ${(e as Error).message.split('\n')[0]}; run 'loopledger calc --help'`);
+    throw new UserError(`calc: ${argError(e)}; run 'loopledger calc --help'`);
   }
   if (values.help) {
     ctx.out(HELP);
