@@ -143,7 +143,7 @@ export type BlockInput = string | Block;
 /** A requirement as typed ("pm>=45") or parsed. */
 export type RequirementInput = string | Requirement;
 
-/** The headline numbers of a loop: the worst value over its variants. */
+/** The headline numbers of a loop: the worst value over its variants (the gain margin nearest 0 dB, signed). */
 export interface Headline {
   readonly phaseMarginDeg: number | null;
   readonly gainMarginDb: number | null;

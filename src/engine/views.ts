@@ -68,7 +68,8 @@ export function headline(r: LoopResult): Headline {
   };
   return {
     phaseMarginDeg: pick(ms.map((m) => m.phaseMarginDeg), 'min'),
-    gainMarginDb: pick(ms.map((m) => (m.gainMarginDb === null ? null : Math.abs(m.gainMarginDb))), 'min'),
+    // The reported gain margin nearest 0 dB over the variants, with its sign (negative: lower the gain).
+    gainMarginDb: ms.reduce<number | null>((w, m) => (m.gainMarginDb !== null && (w === null || Math.abs(m.gainMarginDb) < Math.abs(w)) ? m.gainMarginDb : w), null),
     crossoverRadS: pick(ms.map((m) => (m.gainCrossoversRadS.length === 0 ? null : Math.max(...m.gainCrossoversRadS))), 'min'),
     bandwidthRadS: pick(ms.map((m) => m.bandwidthRadS), 'min'),
     peakSensitivity: pick(ms.map((m) => m.peakSensitivity), 'max'),

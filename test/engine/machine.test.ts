@@ -200,3 +200,20 @@ describe('dump and load', () => {
     expect(fs.existsSync(nowhere)).toBe(false);
   });
 });
+
+describe('headline', () => {
+  it('keeps the sign of the gain margin: an unstable loop says the gain must fall', async () => {
+    // 1/(s(s+1)(s+2)) is on the stability boundary at K = 6 (Routh; e.g. Ogata, Modern Control
+    // Engineering, 5th ed., sec. 5-7, from memory), with the phase crossover at sqrt(2) rad/s.
+    // At K = 12 the gain margin is -20 log10(2) dB; at K = 3 it is +20 log10(2) dB.
+    const { m } = newMachine('rad');
+    m.addAxis('R');
+    await m.addLoop('R/pos', { plant: '1/(s*(s+1)*(s+2))' });
+    const { headline } = await import('../../src/engine/index.js');
+    const high = (await m.setCompensator('R/pos', ['gain:12'])).results[0]!;
+    expect(high.status).toBe('unstable');
+    expect(headline(high).gainMarginDb).toBeCloseTo(-20 * Math.log10(2), 6);
+    const low = (await m.setCompensator('R/pos', ['gain:3'])).results[0]!;
+    expect(headline(low).gainMarginDb).toBeCloseTo(20 * Math.log10(2), 6);
+  });
+});
