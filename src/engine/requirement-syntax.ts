@@ -40,6 +40,10 @@ export function metricName(m: MetricKey): string {
 
 /** Parses one requirement word; the error says how to write it. */
 export function parseRequirement(text: string, unit: FreqUnit): Requirement {
+  if (/^\s*[a-z]+\s*$/i.test(text)) {
+    // Unquoted in a shell, pm>=45 reaches us as 'pm' (the shell took '>' as a redirect).
+    throw new UserError(`requirement '${text.trim()}' has no limit; write it as '${text.trim()}>=VALUE' in quotes (unquoted, the shell reads > and < as redirects)`);
+  }
   const m = /^\s*([a-z]+)\s*(>=|<=)\s*(.+?)\s*$/i.exec(text);
   if (!m) throw new UserError(`requirement '${text}': write METRIC>=VALUE or METRIC<=VALUE, e.g. pm>=45; ${REQUIREMENT_SYNTAX_HELP}`);
   const key = m[1]!.toLowerCase();

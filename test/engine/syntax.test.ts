@@ -157,3 +157,11 @@ describe('requirement syntax', () => {
     expect(userError(() => req('kv>=fast')).message).toMatch(/not a number/);
   });
 });
+
+describe('a requirement cut short by the shell', () => {
+  it('names the quoting problem when only the metric arrives', () => {
+    // `spec X/vel pm>=45` unquoted: the shell redirects to a file '=45' and passes 'pm'.
+    expect(() => parseRequirement('pm', 'hz')).toThrow(UserError);
+    expect(() => parseRequirement('pm', 'hz')).toThrow(/in quotes/);
+  });
+});
