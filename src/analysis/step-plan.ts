@@ -1,65 +1,19 @@
-import type { Complex, Poly, TransferFunction } from '../model/tf.js';
-import { polyAdd, polyDerivative, polyEvalComplex, polyMul, polyScale } from './poly.js';
+import type { Complex } from '../model/tf.js';
+import type { Mode } from './step-modes.js';
 
 /**
- * How long and how finely to simulate a step, from the closed-loop modes.
+ * How long and how finely to simulate a step, from the closed-loop modes (step-modes.ts).
  *
- * Each mode p contributes r e^(pt) to y, with r the residue of Y(s)/s at p. It must be
- * followed until |r| e^(Re(p) t) is far below the settling band (duration), and while it
- * is alive the step must resolve it (|p| h small) so that the cubic pieces stay exact to
- * the error budget below. Weighting by |r| keeps a nearly cancelled slow pole (a PI zero
- * beside a closed-loop pole) from stretching the run, and a tiny fast pole from
- * shrinking the step.
+ * Each mode contributes a term of size w t^k / k! e^(-sigma t) to y or u. It must be
+ * followed until it is far below the settling band (duration), and while it is alive the
+ * step must resolve it (|p| h small) so that the cubic pieces stay exact to the error
+ * budget below. Weighting by size keeps a nearly cancelled slow pole (a PI zero beside a
+ * closed-loop pole) from stretching the run, and a tiny fast pole from shrinking the step.
+ *
+ * Every loop here is bounded: the grid has at most maxSamples steps and at most
+ * MAX_LEVELS step doublings, and a mode whose size is unknown or absurd is capped at
+ * MAX_WEIGHT with a warning, so that the base step can never collapse to zero.
  */
-
-/** A closed-loop mode with the size of its contribution to y and to u. */
-export interface Mode {
-  readonly p: Complex;
-  readonly yAmp: number;
-  readonly uAmp: number;
-}
-
-/** a / b for complex numbers given as pairs. */
-function cdiv(ar: number, ai: number, br: number, bi: number): [number, number] {
-  const d = br * br + bi * bi;
-  return [(ar * br + ai * bi) / d, (ai * br - ar * bi) / d];
-}
-
-/**
- * Residue sizes of Y/s and U/s at each pole, for the loop with characteristic function
- * Delta(s) = Dc Dp + Nc Np e^(-sT): res = N(p) e^(-pT) / (p Delta'(p)). At a repeated
- * (or numerically split) pole Delta' is near zero and the size is huge: that is the
- * cautious answer, since such modes carry t^k e^(pt) terms.
- */
-export function loopModes(plant: TransferFunction, comp: TransferFunction, poles: readonly Complex[]): Mode[] {
-  const delayS = plant.delayS + comp.delayS;
-  const n: Poly = polyMul(comp.num, plant.num);
-  const d: Poly = polyMul(comp.den, plant.den);
-  const nu: Poly = polyMul(comp.num, plant.den);
-  const dn = polyDerivative(n);
-  const dd = polyDerivative(d);
-  // Delta' = D' + (N' - T N) e^(-sT)
-  const nPrime = polyAdd(dn, polyScale(n, -delayS));
-  return poles.filter((p) => Number.isFinite(p.re) && Number.isFinite(p.im)).map((p) => {
-    const eMag = Math.exp(-p.re * delayS);
-    const er = eMag * Math.cos(-p.im * delayS);
-    const ei = eMag * Math.sin(-p.im * delayS);
-    const [ddr, ddi] = polyEvalComplex(dd, p.re, p.im);
-    const [npr, npi] = polyEvalComplex(nPrime, p.re, p.im);
-    const derr = ddr + npr * er - npi * ei;
-    const deri = ddi + npr * ei + npi * er;
-    // Denominator p Delta'(p).
-    const qr = p.re * derr - p.im * deri;
-    const qi = p.re * deri + p.im * derr;
-    const [yr, yi] = polyEvalComplex(n, p.re, p.im);
-    const [ur, ui] = polyEvalComplex(nu, p.re, p.im);
-    const [ry, iy] = cdiv(yr * er - yi * ei, yr * ei + yi * er, qr, qi);
-    const [ru, iu] = cdiv(ur, ui, qr, qi);
-    const yAmp = Math.hypot(ry, iy);
-    const uAmp = Math.hypot(ru, iu);
-    return { p, yAmp: Number.isFinite(yAmp) ? yAmp : Infinity, uAmp: Number.isFinite(uAmp) ? uAmp : Infinity };
-  });
-}
 
 /** One stretch of the grid: steps of stride base steps each. */
 export interface PlanLevel {
@@ -121,24 +75,35 @@ interface Weighted {
   weight: number;
 }
 
-/** The levels for a base step h0 up to durationS, cut short after maxSteps steps. */
+/** Step doublings at most: 2^MAX_LEVELS spans any ratio of doubles (~2^2100) with room to spare. */
+const MAX_LEVELS = 2200;
+/** Cap on a mode's size relative to the final value (and the size it is capped to). */
+export const MAX_WEIGHT = 1e12;
+/** Longest planned run (s): far beyond any sample budget, but finite. */
+const MAX_DURATION_S = 1e300;
+/** The envelope t^k e^(-sigma t) is bounded by a multiple of e^(-(1 - THETA) sigma t). */
+const THETA = 1 / 3;
+
+/** The levels for a base step h0 up to durationS, cut short after maxSteps steps (h0S > 0, all finite). */
 function schedule(ms: readonly Weighted[], h0S: number, hMaxS: number, delay: DelayLimits, durationS: number, maxSteps: number): { levels: PlanLevel[]; cut: boolean } {
   const levels: PlanLevel[] = [];
   let tick = 0;
   let stride = 1;
   let left = maxSteps;
   const endTick = durationS / h0S;
-  for (;;) {
+  // Each pass either returns or doubles the stride; steps are bounded by maxSteps.
+  for (let pass = 0; pass < MAX_LEVELS; pass++) {
     const next = stride * 2;
     let switchS = Infinity;
     if (next * h0S <= hMaxS) {
       // Steps longer than the delay only once its jumps and kinks have faded.
       switchS = delay.ticks > 0 && next > delay.ticks ? delay.longStepsFromS : 0;
       for (const m of ms) {
-        // The longer step waits until this mode has decayed enough for it.
+        // The longer step waits until this mode has decayed enough for it (a NaN waits for ever).
         const e = pieceError(m, next * h0S);
-        if (e > ERR) switchS = Math.max(switchS, m.sigma > 0 ? Math.log(e / ERR) / m.sigma : Infinity);
+        if (!(e <= ERR)) switchS = Math.max(switchS, m.sigma > 0 ? Math.log(e / ERR) / m.sigma : Infinity);
       }
+      if (Number.isNaN(switchS)) switchS = Infinity;
     }
     const switchTick = switchS / h0S;
     const last = switchTick >= endTick;
@@ -155,6 +120,29 @@ function schedule(ms: readonly Weighted[], h0S: number, hMaxS: number, delay: De
     tick += steps * stride;
     stride = next;
   }
+  return { levels, cut: true };
+}
+
+/** ln k! for small k. */
+function logFactorial(k: number): number {
+  let s = 0;
+  for (let i = 2; i <= k; i++) s += Math.log(i);
+  return s;
+}
+
+/**
+ * One mode as a single decaying exponential for the planner. A term t^k e^(-sigma t) is at
+ * most (k / (e THETA sigma))^k e^(-(1 - THETA) sigma t), so repeated poles plan a little
+ * longer and finer than a lone pole of the same size.
+ */
+function weighted(m: Mode, yScale: number, uScale: number): Weighted {
+  const sigma0 = -m.p.re - m.spread;
+  const mag = Math.hypot(m.p.re, m.p.im) + m.spread;
+  const weight = Math.max(m.yAmp / yScale, m.uAmp / uScale);
+  if (m.power === 0 || !(sigma0 > 0)) return { mag, sigma: sigma0, weight };
+  const k = m.power;
+  const factor = Math.exp(k * Math.log(k / (Math.E * THETA * sigma0)) - logFactorial(k));
+  return { mag, sigma: (1 - THETA) * sigma0, weight: weight * factor };
 }
 
 /**
@@ -172,23 +160,37 @@ export function planStep(
   opts: { durationS?: number; maxSamples?: number },
 ): StepPlan {
   const warnings: string[] = [];
-  const maxSamples = Math.max(10, Math.floor(opts.maxSamples ?? 20_000));
-  const ms: Weighted[] = modes.map(({ p, yAmp, uAmp }) => ({ mag: Math.hypot(p.re, p.im), sigma: -p.re, weight: Math.max(yAmp / yScale, uAmp / uScale) }));
+  const maxSamples = Math.max(10, Math.floor(Number.isFinite(opts.maxSamples) ? opts.maxSamples! : 20_000));
+  const ms: Weighted[] = modes.map((m) => weighted(m, yScale, uScale)).filter((m) => Number.isFinite(m.mag) && !Number.isNaN(m.sigma));
+  if (ms.some((m) => !(m.weight <= MAX_WEIGHT))) {
+    // An unknown (infinite, NaN) or absurd size would shrink the step to nothing: plan as if huge, and say so.
+    warnings.push(`step plan: a closed-loop mode's size could not be estimated (repeated or nearly cancelled pole); planned as ${MAX_WEIGHT.toExponential(0)} times the final value, results may be less accurate`);
+    for (const m of ms) if (!(m.weight <= MAX_WEIGHT)) m.weight = MAX_WEIGHT;
+  }
   let tEnd = 0;
   for (const m of ms) {
     if (m.sigma > 0) tEnd = Math.max(tEnd, Math.min(Math.log(m.weight / TAIL), 40) / m.sigma);
     else if (m.weight > TAIL) tEnd = Math.max(tEnd, 20 / Math.max(m.mag, 1e-12));
   }
-  for (const p of openLoopPoles) ms.push({ mag: Math.hypot(p.re, p.im), sigma: -p.re, weight: 1 });
+  for (const p of openLoopPoles) {
+    if (Number.isFinite(p.re) && Number.isFinite(p.im)) ms.push({ mag: Math.hypot(p.re, p.im), sigma: -p.re, weight: 1 });
+  }
   const hFineS = Math.min(...ms.map(stepFor));
-  if (tEnd === 0) tEnd = Number.isFinite(hFineS) ? 40 * hFineS : 1;
+  if (tEnd === 0) {
+    // Nothing in y or u moves after 0+: any span shows it; take one of the loop's own time scale.
+    const slowest = Math.min(...ms.filter((m) => m.mag > 0).map((m) => m.mag));
+    tEnd = Number.isFinite(hFineS) ? 40 * hFineS : Number.isFinite(slowest) ? 10 / slowest : 1;
+  }
   tEnd += 2 * delayS;
-  const durationS = opts.durationS ?? tEnd;
+  // A mode too slow to bound in doubles gets the longest finite span: the sample budget then cuts the run, with a warning.
+  let durationS = Math.min(opts.durationS ?? tEnd, MAX_DURATION_S);
+  if (!(durationS > 0)) durationS = 1;
   const hMaxS = durationS / MIN_STEPS;
   let h0S = Math.min(hFineS, hMaxS);
   let delayTicks = 0;
   if (delayS > 0) {
-    delayTicks = 2 ** Math.max(0, Math.ceil(Math.log2(delayS / h0S)));
+    // Past 2^60 base steps per delay the run is cut long before the delay ends anyway.
+    delayTicks = 2 ** Math.min(60, Math.max(0, Math.ceil(Math.log2(delayS / h0S))));
     h0S = delayS / delayTicks;
   }
   // A feedthrough in both C and P sends each jump round the loop again every T, scaled by

@@ -122,8 +122,9 @@ export function simulateStep(sys: LoopSystem, plan: StepPlan): StepTrace {
       const tick1 = ticks[k]! + stride;
       let dMinus = 0, dDotMinus = 0;
       if (delayed && tick1 - m >= 0) {
+        // The grid holds t - T (see above); back never passes the newest point k.
         back++;
-        while (ticks[back]! < tick1 - m) back++;
+        while (back < k && ticks[back]! < tick1 - m) back++;
         dMinus = uMinus[back]!;
         dDotMinus = back > 0 ? duEnd[back - 1]! : 0;
       }

@@ -4,7 +4,8 @@ import { closedLoopDcGain } from './error-constants.js';
 import { polyAdd, polyMul, polyTrim } from './poly.js';
 import { polyRoots } from './roots.js';
 import { traceMetrics, zeroFinalValueMetrics } from './step-metrics.js';
-import { loopModes, planStep, type StepPlan } from './step-plan.js';
+import { loopModes } from './step-modes.js';
+import { planStep, type StepPlan } from './step-plan.js';
 import { simulateStep, type StepTrace } from './step-sim.js';
 import { buildLoopSystem, type LoopSystem } from './step-system.js';
 
@@ -49,6 +50,9 @@ function run(sys: LoopSystem, plant: TransferFunction, comp: TransferFunction, p
 
 /** Why a loop cannot be simulated, or null; improper or algebraically singular loops. */
 function notSimulable(plant: TransferFunction, comp: TransferFunction): string | null {
+  for (const tf of [plant, comp]) {
+    if (![...tf.num, ...tf.den, tf.delayS].every(Number.isFinite) || tf.delayS < 0) return 'step metrics need finite coefficients and a finite delay >= 0';
+  }
   if (!isProper(comp) || !isProper(plant)) return 'step metrics need a proper loop (the compensator or plant has more zeros than poles)';
   return null;
 }
@@ -74,9 +78,27 @@ export function stepResponse(
     return { ...empty, warnings: [`step response unavailable: ${(e as Error).message}`] };
   }
   const poles = opts.closedLoopPoles && opts.closedLoopPoles.length > 0 ? opts.closedLoopPoles : planningPoles(plant, comp);
-  const { trace, plan } = run(sys, plant, comp, poles, loopDcGain(plant, comp), opts);
+  let r: Run;
+  try {
+    r = run(sys, plant, comp, poles, loopDcGain(plant, comp), opts);
+  } catch (e) {
+    return { ...empty, warnings: [`step response unavailable: ${(e as Error).message}`] };
+  }
+  const { trace, plan } = r;
   const warnings = plan.cut ? [...plan.warnings, `step response cut at ${plan.durationS.toPrecision(3)} s: too many steps to follow it to the end`] : plan.warnings;
   return { tS: trace.tS, y: trace.yPlus, u: trace.uPlus, warnings };
+}
+
+/** The metrics when every value is a finite number (or null where allowed), else null. */
+function finiteMetrics(m: StepMetrics): StepMetrics | null {
+  return Object.values(m).every((v) => v === null || Number.isFinite(v)) ? m : null;
+}
+
+/** What stepMetrics returns: simulatedSteps counts the grid steps of every run (bounded by the sample budget). */
+export interface StepMetricsResult {
+  readonly metrics: StepMetrics | null;
+  readonly warnings: string[];
+  readonly simulatedSteps: number;
 }
 
 /** Unit-step metrics of a stable loop; null (with warnings saying why) for unstable, marginal or improper loops. */
@@ -85,33 +107,51 @@ export function stepMetrics(
   comp: TransferFunction,
   closedLoopPoles: readonly Complex[],
   stable: boolean,
-): { metrics: StepMetrics | null; warnings: string[] } {
-  if (!stable) return { metrics: null, warnings: [] };
+): StepMetricsResult {
+  if (!stable) return { metrics: null, warnings: [], simulatedSteps: 0 };
   if (closedLoopPoles.some((p) => p.re >= -MARGINAL_DAMPING * Math.hypot(p.re, p.im))) {
-    return { metrics: null, warnings: ['closed-loop poles on or next to the imaginary axis: no step metrics'] };
+    return { metrics: null, warnings: ['closed-loop poles on or next to the imaginary axis: no step metrics'], simulatedSteps: 0 };
   }
   const why = notSimulable(plant, comp);
-  if (why) return { metrics: null, warnings: [why] };
+  if (why) return { metrics: null, warnings: [why], simulatedSteps: 0 };
   let sys: LoopSystem;
   try {
     sys = buildLoopSystem(plant, comp);
   } catch (e) {
-    return { metrics: null, warnings: [`no step metrics: ${(e as Error).message}`] };
+    return { metrics: null, warnings: [`no step metrics: ${(e as Error).message}`], simulatedSteps: 0 };
   }
   const yF = loopDcGain(plant, comp);
   const poles = closedLoopPoles.length > 0 ? closedLoopPoles : planningPoles(plant, comp);
-  const first = run(sys, plant, comp, poles, yF, {});
+  let first: Run;
+  try {
+    first = run(sys, plant, comp, poles, yF, {});
+  } catch (e) {
+    return { metrics: null, warnings: [`no step metrics: ${(e as Error).message}`], simulatedSteps: 0 };
+  }
   const trace = first.trace;
   let plan = first.plan;
+  let simulatedSteps = trace.tS.length - 1;
   const warnings = [...plan.warnings];
+  const done = (m: StepMetrics): StepMetricsResult => {
+    const metrics = finiteMetrics(m);
+    if (!metrics) warnings.push('step simulation gave non-finite values: no step metrics');
+    return { metrics, warnings: [...new Set(warnings)], simulatedSteps };
+  };
   if (yF === 0) {
     warnings.push('closed-loop DC gain is zero: overshoot, rise, settling and peak time are not defined');
-    return { metrics: zeroFinalValueMetrics(trace), warnings };
+    return done(zeroFinalValueMetrics(trace));
   }
   let res = traceMetrics(trace, yF);
   if (!res.settled && !plan.cut) {
     // The planned run was too short (modes estimated with a delay, or very large residues): run longer once.
-    const longer = run(sys, plant, comp, poles, yF, { durationS: plan.durationS * 4 });
+    let longer: Run;
+    try {
+      longer = run(sys, plant, comp, poles, yF, { durationS: plan.durationS * 4 });
+    } catch (e) {
+      warnings.push(`longer step run failed: ${(e as Error).message}; settling time unknown`);
+      return done({ ...res.metrics, settlingTimeS: null });
+    }
+    simulatedSteps += longer.trace.tS.length - 1;
     res = traceMetrics(longer.trace, yF);
     warnings.push(...longer.plan.warnings);
     plan = longer.plan;
@@ -120,5 +160,5 @@ export function stepMetrics(
     const why = plan.cut ? 'the run was cut short (too many steps)' : 'not settled by then';
     warnings.push(`step response simulated to ${plan.durationS.toPrecision(3)} s, ${why}: settling time unknown`);
   }
-  return { metrics: res.metrics, warnings };
+  return done(res.metrics);
 }
