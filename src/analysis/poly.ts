@@ -84,6 +84,20 @@ export function polyEvalComplex(a: Poly, re: number, im: number): [number, numbe
   return [rr, ri];
 }
 
+/** a(re + j im) and a'(re + j im) together (complex Horner): [value re, value im, derivative re, derivative im]. */
+export function polyEvalComplexWithDerivative(a: Poly, re: number, im: number): [number, number, number, number] {
+  let vr = 0, vi = 0, dr = 0, di = 0;
+  for (let k = a.length - 1; k >= 0; k--) {
+    const ndr = dr * re - di * im + vr;
+    di = dr * im + di * re + vi;
+    dr = ndr;
+    const nvr = vr * re - vi * im + a[k]!;
+    vi = vr * im + vi * re;
+    vr = nvr;
+  }
+  return [vr, vi, dr, di];
+}
+
 /** a(jw) as [re, im]; cheaper than the general complex case. */
 export function polyEvalJw(a: Poly, w: number): [number, number] {
   // s^k at s = jw cycles through 1, j, -1, -j times w^k.

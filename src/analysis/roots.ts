@@ -1,6 +1,6 @@
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
 import type { Complex, Poly } from '../model/tf.js';
-import { polyTrim } from './poly.js';
+import { polyTrim, polyEvalComplexWithDerivative } from './poly.js';
 
 /**
  * Polynomial roots as eigenvalues of the companion matrix.
@@ -48,25 +48,11 @@ function balance(a: Float64Array[], n: number): void {
   }
 }
 
-/** Complex Horner: value and derivative of a real polynomial (ascending) at x. */
-function evalWithDerivative(p: readonly number[], re: number, im: number): [number, number, number, number] {
-  let vr = 0, vi = 0, dr = 0, di = 0;
-  for (let k = p.length - 1; k >= 0; k--) {
-    const ndr = dr * re - di * im + vr;
-    di = dr * im + di * re + vi;
-    dr = ndr;
-    const nvr = vr * re - vi * im + p[k]!;
-    vi = vr * im + vi * re;
-    vr = nvr;
-  }
-  return [vr, vi, dr, di];
-}
-
 /** A few Newton steps on p, kept only while |p| shrinks and the step stays small next to the neighbouring roots. */
 function polish(p: readonly number[], z: Complex, neighbourDist: number): Complex {
   let re = z.re;
   let im = z.im;
-  let [vr, vi, dr, di] = evalWithDerivative(p, re, im);
+  let [vr, vi, dr, di] = polyEvalComplexWithDerivative(p, re, im);
   let mag = Math.hypot(vr, vi);
   for (let it = 0; it < 4 && mag > 0; it++) {
     const den = dr * dr + di * di;
@@ -77,7 +63,7 @@ function polish(p: readonly number[], z: Complex, neighbourDist: number): Comple
     if (Math.hypot(sr, si) > 0.1 * neighbourDist) break;
     const nr = re - sr;
     const ni = im === 0 ? 0 : im - si;
-    const next = evalWithDerivative(p, nr, ni);
+    const next = polyEvalComplexWithDerivative(p, nr, ni);
     const nmag = Math.hypot(next[0], next[1]);
     if (!(nmag < mag)) break;
     re = nr; im = ni; [vr, vi, dr, di] = next; mag = nmag;

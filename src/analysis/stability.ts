@@ -1,6 +1,6 @@
 import type { Complex, TransferFunction } from '../model/tf.js';
 import { factoredAt, type Factored } from './factors.js';
-import { polyAdd, polyMul } from './poly.js';
+import { polyAdd, polyMul, polyEvalComplexWithDerivative } from './poly.js';
 import { polyRoots } from './roots.js';
 
 /**
@@ -114,28 +114,14 @@ export function padeDelay(delayS: number, m: number): [number[], number[]] {
   return [num, den];
 }
 
-/** Complex Horner for p and p' at s (ascending coefficients): [pr, pi, dr, di]. */
-function evalWithDerivative(p: readonly number[], re: number, im: number): [number, number, number, number] {
-  let vr = 0, vi = 0, dr = 0, di = 0;
-  for (let k = p.length - 1; k >= 0; k--) {
-    const ndr = dr * re - di * im + vr;
-    di = dr * im + di * re + vi;
-    dr = ndr;
-    const nvr = vr * re - vi * im + p[k]!;
-    vi = vr * im + vi * re;
-    vr = nvr;
-  }
-  return [vr, vi, dr, di];
-}
-
 /** Newton's method on F(s) = D(s) + N(s) e^{-sT} from s0; the root, or null when it does not converge to a small residual. */
 function newtonDelayRoot(loop: TransferFunction, s0: Complex): Complex | null {
   const T = loop.delayS;
   let re = s0.re;
   let im = s0.im;
   for (let it = 0; it < 60; it++) {
-    const [dr, di, ddr, ddi] = evalWithDerivative(loop.den, re, im);
-    const [nr, ni, dnr, dni] = evalWithDerivative(loop.num, re, im);
+    const [dr, di, ddr, ddi] = polyEvalComplexWithDerivative(loop.den, re, im);
+    const [nr, ni, dnr, dni] = polyEvalComplexWithDerivative(loop.num, re, im);
     const mag = Math.exp(-T * re);
     const er = mag * Math.cos(T * im);
     const ei = -mag * Math.sin(T * im);
