@@ -4,12 +4,17 @@
 import { rmSync } from 'node:fs';
 import { build } from 'esbuild';
 
-// Chunk names carry content hashes: clear old ones so dist/ holds only this build.
-rmSync('dist', { recursive: true, force: true });
+// `--outdir DIR` builds elsewhere (tests build their own copy, so they never race over dist/).
+const at = process.argv.indexOf('--outdir');
+const outdir = at > 0 && process.argv[at + 1] ? process.argv[at + 1] : 'dist';
+
+// Chunk names carry content hashes: clear old ones so the output holds only this build.
+rmSync(outdir, { recursive: true, force: true });
 
 await build({
-  entryPoints: { main: 'src/cli/main.ts' },
-  outdir: 'dist',
+  // The recheck worker (src/engine/pool-setup.ts looks for it beside the chunk that starts it).
+  entryPoints: { main: 'src/cli/main.ts', worker: 'src/engine/worker.ts' },
+  outdir,
   bundle: true,
   splitting: true,
   format: 'esm',

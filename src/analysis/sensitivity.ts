@@ -1,4 +1,5 @@
 import { factoredAt, type Factored } from './factors.js';
+import { hypot2 } from './hypot.js';
 import type { LoopSamples } from './loop-samples.js';
 import { brentMin, brentRoot } from './scalar.js';
 
@@ -18,7 +19,7 @@ export interface Peak {
 function closedLoopMags(logMag: number, phaseRad: number): [number, number] {
   const m = Math.exp(logMag);
   if (!Number.isFinite(m)) return [Infinity, Infinity];
-  return [Math.hypot(1 + m * Math.cos(phaseRad), m * Math.sin(phaseRad)), m];
+  return [hypot2(1 + m * Math.cos(phaseRad), m * Math.sin(phaseRad)), m];
 }
 
 /** |S| = 1/|1+L| and |T| = |L|/|1+L| at w. */

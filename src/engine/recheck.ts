@@ -1,13 +1,14 @@
 import type { StoreSql } from '../store/queries.js';
 import { canonicalJson } from './canonical-json.js';
 import type { LoopGraph } from './graph.js';
+import { analysisPool } from './pool.js';
+import { poolSettings } from './pool-setup.js';
+import { evaluateOne, type Computed, type Evaluator, type RecheckTask, type TaskLoopKey } from './pool-task.js';
 import { readStoredResult } from './result-shape.js';
 import { decodeState } from './state.js';
 import type { LoopResult, LoopState } from './types.js';
-import type * as EvaluateModule from './evaluate.js';
 
-/** The numerics, loaded on demand. */
-export type Evaluator = typeof EvaluateModule;
+export type { Evaluator } from './pool-task.js';
 
 let evaluator: Promise<Evaluator> | null = null;
 
@@ -67,45 +68,90 @@ export function storedResult(env: RecheckEnv, id: number, unreadable?: Set<numbe
  * Fresh results of `ids`: stored ones where their input hash matches, new ones
  * (analysed, and stored when env.store) otherwise. Inner loops are handled
  * first, since an outer loop's `sep` requirement reads its inner loop's result.
+ * Many stale loops (a full recheck) are analysed on the worker pool, one task
+ * per cascade tree; results and rows are the same either way, and rows are
+ * written here, in this transaction, in the same order.
  */
 export function recheck(env: RecheckEnv, ids: Iterable<number>): Map<number, LoopResult> {
-  const { graph } = env;
   const results = new Map<number, LoopResult>();
   const unreadable = new Set<number>();
-  let cascade: InstanceType<Evaluator['Cascade']> | null = null;
-  for (const id of graph.withInnerChains(ids)) {
+  const stale: number[] = [];
+  for (const id of env.graph.withInnerChains(ids)) {
     const stored = storedResult(env, id, unreadable);
-    if (stored !== null) {
-      results.set(id, stored);
-      continue;
-    }
-    if (env.ev === null) throw new Error('recheck: analysis needed but not loaded');
-    cascade ??= new env.ev.Cascade((x) => ({ ref: graph.ref(x), state: stateOf(env, x), innerId: graph.loop(x).inner_loop_id }));
-    const k = key(env, id);
-    const innerId = graph.loop(id).inner_loop_id;
-    const c = cascade;
-    const r = env.ev.evaluateLoop({
-      id,
-      ref: graph.ref(id),
-      revision: k.revision,
-      inputHash: k.hash ?? 'unsaved',
-      computedAt: env.computedAt,
-      unit: graph.unit,
-      cascade: c,
-      inner: innerId === null ? null : results.get(innerId)!,
-      innerVariant: (v) => (innerId === null ? v : c.resolve(innerId, v)),
-    });
+    if (stored !== null) results.set(id, stored);
+    else stale.push(id);
+  }
+  if (stale.length === 0) return results;
+  if (env.ev === null) throw new Error('recheck: analysis needed but not loaded');
+  const pool = stale.length >= poolSettings().minLoops ? analysisPool() : null;
+  const computed = pool !== null ? pool.run(tasksFor(env, stale, results), env.ev) : analyseHere(env, env.ev, stale, results);
+  for (const id of stale) {
+    const c = computed.get(id);
+    if (c === undefined) throw new Error(`recheck: no result for ${env.graph.ref(id)}`);
     if (env.counter) env.counter.analysed++;
+    const k = key(env, id);
     if (env.store && k.hash !== null) {
-      const row = { loop_id: id, revision: k.revision, input_hash: k.hash, status: r.status, result_json: canonicalJson(r), computed_at: env.computedAt };
+      const row = { loop_id: id, revision: k.revision, input_hash: k.hash, status: c.result.status, result_json: c.json ?? canonicalJson(c.result), computed_at: env.computedAt };
       if (unreadable.has(id)) env.sql.replaceResult(row);
       else env.sql.insertResult(row);
     }
-    results.set(id, r);
+    results.set(id, c.result);
   }
   return results;
 }
 
+function taskKey(env: RecheckEnv, id: number): TaskLoopKey {
+  const k = key(env, id);
+  return { id, revision: k.revision, inputHash: k.hash ?? 'unsaved' };
+}
+
+/** Analyses stale loops (inner before outer) on this thread; `fresh` holds the stored results. */
+function analyseHere(env: RecheckEnv, ev: Evaluator, stale: readonly number[], fresh: ReadonlyMap<number, LoopResult>): Map<number, Computed> {
+  const { graph } = env;
+  const cascade = new ev.Cascade((x) => ({ ref: graph.ref(x), state: stateOf(env, x), innerId: graph.loop(x).inner_loop_id }));
+  const out = new Map<number, Computed>();
+  for (const id of stale) {
+    const innerId = graph.loop(id).inner_loop_id;
+    const inner = innerId === null ? null : (out.get(innerId)?.result ?? fresh.get(innerId)!);
+    out.set(id, evaluateOne(ev, cascade, graph.ref(id), taskKey(env, id), innerId, inner, env.computedAt, graph.unit, env.store));
+  }
+  return out;
+}
+
+/** The innermost loop of a loop's cascade: stale loops with the same one form one task. */
+function innermost(graph: LoopGraph, id: number): number {
+  let x = id;
+  for (let inner = graph.loop(x).inner_loop_id; inner !== null; inner = graph.loop(x).inner_loop_id) x = inner;
+  return x;
+}
+
+/** One task per cascade tree, holding the states of its loops and the stored results of fresh inner loops. */
+function tasksFor(env: RecheckEnv, stale: readonly number[], fresh: ReadonlyMap<number, LoopResult>): RecheckTask[] {
+  const { graph } = env;
+  const trees = new Map<number, number[]>();
+  for (const id of stale) {
+    const root = innermost(graph, id);
+    const list = trees.get(root);
+    if (list) list.push(id);
+    else trees.set(root, [id]);
+  }
+  return [...trees.values()].map((ids): RecheckTask => {
+    const analysed = new Set(ids);
+    const known = new Map<number, LoopResult>();
+    for (const id of ids) {
+      const innerId = graph.loop(id).inner_loop_id;
+      if (innerId !== null && !analysed.has(innerId)) known.set(innerId, fresh.get(innerId)!);
+    }
+    return {
+      loops: graph.withInnerChains(ids).map((x) => ({ id: x, ref: graph.ref(x), state: stateOf(env, x), innerId: graph.loop(x).inner_loop_id })),
+      analyse: ids.map((id) => taskKey(env, id)),
+      known: [...known].map(([id, result]) => ({ id, result })),
+      computedAt: env.computedAt,
+      unit: graph.unit,
+      json: env.store,
+    };
+  });
+}
 function stateOf(env: RecheckEnv, id: number): LoopState {
   const ov = env.overrides?.get(id);
   if (ov) return ov.state;
