@@ -5,19 +5,19 @@ import { fileURLToPath } from 'node:url';
 
 /**
  * How many recheck workers to use, from when on, and where their code is.
- * LOOPLEDGER_WORKERS=0 (or 1) turns the pool off; tests and the bench set both
+ * LOOPLEDGER_WORKERS=0 turns the pool off; tests and the bench set both
  * numbers with configurePool.
  */
 
 export interface PoolSettings {
-  /** Worker threads; below 2 the pool is off (one worker would only add overhead). */
+  /** Worker threads beside the main thread, which analyses too; 0 turns the pool off. */
   readonly workers: number;
   /** Stale loops a recheck needs before it uses the pool: a change with its handful of dependants stays on the main thread. */
   readonly minLoops: number;
 }
 
 /** More workers than this rarely pay: a recheck also parses states and writes rows on the main thread. */
-const MAX_WORKERS = 4;
+const MAX_WORKERS = 3;
 const MIN_LOOPS = 64;
 
 let overrides: Partial<PoolSettings> = {};
@@ -37,7 +37,8 @@ function envWorkers(): number | undefined {
 /** The settings in force. */
 export function poolSettings(): PoolSettings {
   return {
-    workers: overrides.workers ?? envWorkers() ?? Math.min(os.availableParallelism(), MAX_WORKERS),
+    // One core is the main thread's: it analyses its share between looking in on the workers.
+    workers: overrides.workers ?? envWorkers() ?? Math.min(os.availableParallelism() - 1, MAX_WORKERS),
     minLoops: overrides.minLoops ?? MIN_LOOPS,
   };
 }

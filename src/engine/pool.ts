@@ -50,7 +50,7 @@ export class AnalysisPool {
   private runs = 0;
   /** Set when the workers failed us; the pool is then not used again. */
   broken = false;
-  /** Loops analysed so far by the workers and, standing in for them, by the main thread. */
+  /** Loops analysed so far by the workers and by the main thread (its share, and work it took over). */
   readonly analysed = { byWorkers: 0, byMain: 0 };
 
   private readonly stallMs: number;
@@ -76,7 +76,11 @@ export class AnalysisPool {
     return this.slots.length;
   }
 
-  /** Results of every task, by loop id; blocks until all are in. Runs work itself when a worker fails. */
+  /**
+   * Results of every task, by loop id; blocks until all are in. The main thread
+   * analyses too (so n workers use n + 1 cores) and takes over the work of a
+   * worker that fails.
+   */
   run(tasks: readonly RecheckTask[], ev: Evaluator): Map<number, Computed> {
     const run = ++this.runs;
     const out = new Map<number, Computed>();
@@ -93,7 +97,7 @@ export class AnalysisPool {
     const dispatch = () => {
       for (const s of this.slots) {
         while (s.alive && s.inFlight < IN_FLIGHT && queue.length > 0) {
-          const want = Math.max(BATCH_MIN_LOOPS, Math.ceil(queuedLoops / (this.slots.length * BATCHES_PER_WORKER)));
+          const want = Math.max(BATCH_MIN_LOOPS, Math.ceil(queuedLoops / ((this.slots.length + 1) * BATCHES_PER_WORKER)));
           const batch: RecheckTask[] = [];
           for (let n = 0; queue.length > 0 && n < want; ) {
             const t = queue.shift()!;
@@ -144,8 +148,16 @@ export class AnalysisPool {
       if (got && !this.broken) {
         lastPost = Date.now();
         dispatch();
+      }
+      if (queue.length > 0 && !this.broken) {
+        // The main thread works too, one cascade tree at a time, looking in on the workers between trees.
+        const t = queue.shift()!;
+        queuedLoops -= t.analyse.length;
+        keep(runTask(ev, t), true);
+        lastPost = Date.now(); // the workers' silence counts from when this thread is free to notice it
         continue;
       }
+      if (got) continue;
       const limit = this.slots.some((s) => s.ready) ? this.stallMs : Math.min(BOOT_MS, this.stallMs);
       if (this.broken || Date.now() - lastPost > limit) {
         this.broken = true;
@@ -172,8 +184,8 @@ export class AnalysisPool {
 let shared: AnalysisPool | null = null;
 
 /**
- * The process's pool, started on first use, or null when there is no point
- * (fewer than two workers allowed, or an earlier pool failed).
+ * The process's pool, started on first use, or null when there is none (no
+ * worker allowed, or the code for one missing).
  */
 export function analysisPool(): AnalysisPool | null {
   const { workers } = poolSettings();
@@ -181,7 +193,7 @@ export function analysisPool(): AnalysisPool | null {
     shared.close();
     shared = null;
   }
-  if (workers < 2) return null;
+  if (workers < 1) return null;
   if (shared === null) {
     const src = workerSource();
     if (src === null) return null;
