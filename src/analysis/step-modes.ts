@@ -9,8 +9,9 @@ import { polyAdd, polyDerivative, polyEvalComplex, polyMul, polyScale } from './
  * N(p) e^(-pT) / (p Delta'(p)) is only valid at a simple pole: at a repeated one Delta'(p)
  * is zero, and where a zero cancels such a pole (C P = (s+1)/(s(s+1)): Delta = (s+1)^2)
  * it is even 0/0. A root finder also returns a k-fold root split by about eps^(1/k), which
- * makes the single residues huge and of opposite signs. So poles that lie close together
- * form a cluster, and the cluster's contribution
+ * makes the single residues huge and of opposite signs, and with a delay the listed poles
+ * are estimates (near-multiple roots are listed once). So poles that lie close together
+ * form a cluster (a lone pole is a cluster of one), and the cluster's contribution
  *   (1/2 pi i) \oint Y(s)/s e^(st) ds = e^(ct) sum_j b_j t^(j-1) / (j-1)!
  * is taken from the Laurent coefficients b_j of Y(s)/s about the cluster centre c, found
  * by the trapezoidal rule on a circle around the cluster. The circle keeps its distance
@@ -32,12 +33,25 @@ export interface Mode {
 
 /** Poles closer than this, relative to their size, form one cluster (a 7-fold root comes back split by ~1e-2). */
 const CLUSTER_REL = 0.05;
-/** Nodes of the trapezoidal rule on the circle; its error falls like (inner/outer radius)^NODES. */
-const NODES = 32;
-/** The circle sits at this fraction of the distance to the nearest outside pole (or the origin). */
-const CIRCLE_AT = 0.6;
-/** ... and only where the cluster lies well inside it. */
-const CLUSTER_INSIDE = 0.3;
+/**
+ * Nodes of the trapezoidal rule on the circle. Its error in b_j falls like (spread / r)^NODES
+ * from inside and (r / room)^(NODES - j) from outside, where it is multiplied by room^j: with
+ * a cluster at 1000 rad/s, 32 nodes left spurious t^3 terms big enough to stretch the run.
+ */
+const NODES = 64;
+/** The circle's radius, as a fraction of the distance to the nearest outside pole (or the origin) ... */
+const CIRCLE_AT = 0.3;
+/** ... and at least this multiple of the cluster's own radius, which must be at most CLUSTER_INSIDE of that distance. */
+const CIRCLE_OVER_SPREAD = 2;
+const CLUSTER_INSIDE = 0.2;
+/**
+ * Laurent terms beyond the number of listed poles: a pole list may hold a near-multiple
+ * root once (delay roots are deduplicated), and the circle then still finds its t^k terms.
+ */
+const EXTRA_TERMS = 2;
+const MAX_TERMS = 10;
+/** Coefficients below this fraction of max|F| r^j are rounding noise in the samples of F, not a mode. */
+const NOISE = 1e-10;
 
 type C = [number, number];
 
@@ -79,6 +93,7 @@ function simpleResidues(lp: LoopPolys, p: Complex): [C, C] {
 function laurent(lp: LoopPolys, c: Complex, r: number, k: number): { y: C[]; u: C[] } {
   const y: C[] = Array.from({ length: k }, () => [0, 0]);
   const u: C[] = Array.from({ length: k }, () => [0, 0]);
+  let maxY = 0, maxU = 0;
   for (let m = 0; m < NODES; m++) {
     const th = (2 * Math.PI * m) / NODES;
     const z: C = [r * Math.cos(th), r * Math.sin(th)];
@@ -90,6 +105,8 @@ function laurent(lp: LoopPolys, c: Complex, r: number, k: number): { y: C[]; u: 
     const sDelta = mul([s.re, s.im], [dv[0] + ne[0], dv[1] + ne[1]]);
     let fy = div(ne, sDelta);
     let fu = div(polyEvalComplex(lp.nu, s.re, s.im), sDelta);
+    maxY = Math.max(maxY, Math.hypot(fy[0], fy[1]));
+    maxU = Math.max(maxU, Math.hypot(fu[0], fu[1]));
     // b_j = (1/NODES) sum F(s_m) z_m^j.
     for (let j = 0; j < k; j++) {
       fy = mul(fy, z);
@@ -97,6 +114,10 @@ function laurent(lp: LoopPolys, c: Complex, r: number, k: number): { y: C[]; u: 
       y[j]![0] += fy[0] / NODES; y[j]![1] += fy[1] / NODES;
       u[j]![0] += fu[0] / NODES; u[j]![1] += fu[1] / NODES;
     }
+  }
+  for (let j = 0, rj = r; j < k; j++, rj *= r) {
+    if (Math.hypot(...y[j]!) <= NOISE * maxY * rj) y[j] = [0, 0];
+    if (Math.hypot(...u[j]!) <= NOISE * maxU * rj) u[j] = [0, 0];
   }
   return { y, u };
 }
@@ -139,7 +160,7 @@ function clusterCircle(poles: readonly Complex[], members: number[], delayS: num
       const d = dist(q, c);
       if (d < room) { room = d; nearest = i; }
     });
-    if (spread <= CLUSTER_INSIDE * room) return { c, spread, r: CIRCLE_AT * room, members: [...inside] };
+    if (spread <= CLUSTER_INSIDE * room) return { c, spread, r: Math.max(CIRCLE_AT * room, CIRCLE_OVER_SPREAD * spread), members: [...inside] };
     if (nearest < 0) return null;
     inside.add(nearest);
   }
@@ -148,9 +169,11 @@ function clusterCircle(poles: readonly Complex[], members: number[], delayS: num
 
 /**
  * Envelope terms of every closed-loop mode in Y/s and U/s for the loop with characteristic
- * function Delta(s) = Dc Dp + Nc Np e^(-sT). A lone pole gives one term (its residue);
- * a cluster of k poles gives powers 0 .. k-1. Where no circle fits a cluster, its poles
- * fall back to single residues (possibly infinite: the planner caps them and warns).
+ * function Delta(s) = Dc Dp + Nc Np e^(-sT). A cluster of k listed poles (k = 1 for a lone
+ * one) gives powers 0 .. k + 1 from a circle around it, which also counts what the list
+ * placed a little off or merged (with a delay the poles are estimates). Where no circle
+ * fits, the poles fall back to single residues (possibly infinite: the planner caps them
+ * and warns).
  */
 export function loopModes(plant: TransferFunction, comp: TransferFunction, poles: readonly Complex[]): Mode[] {
   const lp: LoopPolys = {
@@ -168,10 +191,10 @@ export function loopModes(plant: TransferFunction, comp: TransferFunction, poles
   const done = new Set<number>();
   for (const group of clusters(ps)) {
     if (group.every((i) => done.has(i))) continue;
-    const circle = group.length > 1 ? clusterCircle(ps, group, lp.delayS) : null;
+    const circle = clusterCircle(ps, group, lp.delayS);
     if (circle && circle.members.every((i) => !done.has(i))) {
       circle.members.forEach((i) => done.add(i));
-      const b = laurent(lp, circle.c, circle.r, circle.members.length);
+      const b = laurent(lp, circle.c, circle.r, Math.min(circle.members.length + EXTRA_TERMS, MAX_TERMS));
       b.y.forEach((by, j) => modes.push({ p: circle.c, power: j, spread: circle.spread, yAmp: amp(by), uAmp: amp(b.u[j]!) }));
       continue;
     }

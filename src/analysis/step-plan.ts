@@ -75,6 +75,8 @@ interface Weighted {
   weight: number;
 }
 
+/** Default cap on the steps of one simulated run (stepMetrics runs at most twice). */
+export const STEP_SAMPLE_BUDGET = 20_000;
 /** Step doublings at most: 2^MAX_LEVELS spans any ratio of doubles (~2^2100) with room to spare. */
 const MAX_LEVELS = 2200;
 /** Cap on a mode's size relative to the final value (and the size it is capped to). */
@@ -160,7 +162,7 @@ export function planStep(
   opts: { durationS?: number; maxSamples?: number },
 ): StepPlan {
   const warnings: string[] = [];
-  const maxSamples = Math.max(10, Math.floor(Number.isFinite(opts.maxSamples) ? opts.maxSamples! : 20_000));
+  const maxSamples = Math.max(10, Math.floor(Number.isFinite(opts.maxSamples) ? opts.maxSamples! : STEP_SAMPLE_BUDGET));
   const ms: Weighted[] = modes.map((m) => weighted(m, yScale, uScale)).filter((m) => Number.isFinite(m.mag) && !Number.isNaN(m.sigma));
   if (ms.some((m) => !(m.weight <= MAX_WEIGHT))) {
     // An unknown (infinite, NaN) or absurd size would shrink the step to nothing: plan as if huge, and say so.

@@ -34,6 +34,23 @@ function planningPoles(plant: TransferFunction, comp: TransferFunction): Complex
   return polyRoots(polyAdd(polyMul(comp.den, plant.den), polyMul(comp.num, plant.num)));
 }
 
+/**
+ * Where to look for modes: the given poles, and with a delay also the delay-free ones. A
+ * delay pole list is a finite set of estimates that can miss a slow pole (one beside a
+ * cancelled multiple root was seen missing); the delay-free pole is near it for short
+ * delays, and a circle around a place with no pole just finds no mode there.
+ */
+function searchPoles(plant: TransferFunction, comp: TransferFunction, given: readonly Complex[] | undefined): readonly Complex[] {
+  if (!given || given.length === 0) return planningPoles(plant, comp);
+  return plant.delayS + comp.delayS > 0 ? [...given, ...planningPoles(plant, comp)] : given;
+}
+
+/** Extra runs, each EXTEND_BY times longer (4 the first time), while the response has not settled and the budget allows. */
+const EXTENSIONS = 4;
+const EXTEND_BY = 16;
+/** Most runs stepMetrics makes: the planned one and the extensions (each at most the sample budget). */
+export const STEP_MAX_RUNS = 1 + EXTENSIONS;
+
 interface Run {
   trace: StepTrace;
   plan: StepPlan;
@@ -77,7 +94,7 @@ export function stepResponse(
   } catch (e) {
     return { ...empty, warnings: [`step response unavailable: ${(e as Error).message}`] };
   }
-  const poles = opts.closedLoopPoles && opts.closedLoopPoles.length > 0 ? opts.closedLoopPoles : planningPoles(plant, comp);
+  const poles = searchPoles(plant, comp, opts.closedLoopPoles);
   let r: Run;
   try {
     r = run(sys, plant, comp, poles, loopDcGain(plant, comp), opts);
@@ -94,7 +111,7 @@ function finiteMetrics(m: StepMetrics): StepMetrics | null {
   return Object.values(m).every((v) => v === null || Number.isFinite(v)) ? m : null;
 }
 
-/** What stepMetrics returns: simulatedSteps counts the grid steps of every run (bounded by the sample budget). */
+/** What stepMetrics returns: simulatedSteps counts the grid steps of every run (at most STEP_MAX_RUNS sample budgets). */
 export interface StepMetricsResult {
   readonly metrics: StepMetrics | null;
   readonly warnings: string[];
@@ -121,7 +138,7 @@ export function stepMetrics(
     return { metrics: null, warnings: [`no step metrics: ${(e as Error).message}`], simulatedSteps: 0 };
   }
   const yF = loopDcGain(plant, comp);
-  const poles = closedLoopPoles.length > 0 ? closedLoopPoles : planningPoles(plant, comp);
+  const poles = searchPoles(plant, comp, closedLoopPoles);
   let first: Run;
   try {
     first = run(sys, plant, comp, poles, yF, {});
@@ -142,11 +159,11 @@ export function stepMetrics(
     return done(zeroFinalValueMetrics(trace));
   }
   let res = traceMetrics(trace, yF);
-  if (!res.settled && !plan.cut) {
-    // The planned run was too short (modes estimated with a delay, or very large residues): run longer once.
+  // The planned run was too short (modes estimated with a delay, or very large residues): run longer, a bounded number of times.
+  for (let i = 0; i < EXTENSIONS && !res.settled && !plan.cut; i++) {
     let longer: Run;
     try {
-      longer = run(sys, plant, comp, poles, yF, { durationS: plan.durationS * 4 });
+      longer = run(sys, plant, comp, poles, yF, { durationS: plan.durationS * (i === 0 ? 4 : EXTEND_BY) });
     } catch (e) {
       warnings.push(`longer step run failed: ${(e as Error).message}; settling time unknown`);
       return done({ ...res.metrics, settlingTimeS: null });
