@@ -81,6 +81,8 @@ export const STEP_SAMPLE_BUDGET = 20_000;
 const MAX_LEVELS = 2200;
 /** Cap on a mode's size relative to the final value (and the size it is capped to). */
 export const MAX_WEIGHT = 1e12;
+/** Most doublings of the base step within one delay (the delay line indexes whole base steps). */
+const MAX_DELAY_DOUBLINGS = 60;
 /** Longest planned run (s): far beyond any sample budget, but finite. */
 const MAX_DURATION_S = 1e300;
 /** The envelope t^k e^(-sigma t) is bounded by a multiple of e^(-(1 - THETA) sigma t). */
@@ -190,17 +192,21 @@ export function planStep(
   const hMaxS = durationS / MIN_STEPS;
   let h0S = Math.min(hFineS, hMaxS);
   let delayTicks = 0;
+  let tooFine = false;
   if (delayS > 0) {
-    // Past 2^60 base steps per delay the run is cut long before the delay ends anyway.
-    delayTicks = 2 ** Math.min(60, Math.max(0, Math.ceil(Math.log2(delayS / h0S))));
+    // A delay of more than 2^60 base steps cannot be followed at that step: the base step grows, the plan says so.
+    const want = Math.max(0, Math.ceil(Math.log2(delayS / h0S)));
+    tooFine = want > MAX_DELAY_DOUBLINGS;
+    delayTicks = 2 ** Math.min(MAX_DELAY_DOUBLINGS, want);
     h0S = delayS / delayTicks;
   }
+  if (tooFine) warnings.push(`step plan: the delay is more than 2^${MAX_DELAY_DOUBLINGS} steps of the fastest mode; simulated with coarser steps, only up to the delay`);
   // A feedthrough in both C and P sends each jump round the loop again every T, scaled by
   // |Dc Dp| (echoRatio); strictly proper parts smooth each pass by one derivative.
   const echoes = echoRatio >= 1 ? Infinity : echoRatio > 0 ? Math.log(1e-10) / Math.log(echoRatio) : 0;
   const longStepsFromS = delayS * Math.max(6, echoes);
   // Cut rather than coarsen: a step too long for a live mode gives wrong peaks, a short run only an unknown settling time.
-  const { levels, cut } = schedule(ms, h0S, hMaxS, { ticks: delayTicks, longStepsFromS }, durationS, maxSamples);
+  const { levels, cut } = schedule(ms, h0S, hMaxS, { ticks: delayTicks, longStepsFromS }, tooFine ? Math.min(durationS, delayS) : durationS, maxSamples);
   const total = levels.reduce((acc, l) => acc + l.steps * l.stride, 0);
-  return { h0S, delayTicks, levels, durationS: total * h0S, cut, warnings };
+  return { h0S, delayTicks, levels, durationS: total * h0S, cut: cut || tooFine, warnings };
 }
