@@ -157,7 +157,7 @@ const biproper = fc.record({ c: logU(0.1, 10), a: logU(0.1, 10), b: logU(0.1, 10
       riseTimeS: at(0.9) - at(0.1),
       settlingTimeS: off <= 0.02 ? 0 : Math.log(off / 0.02) / lam,
       peakEffort: Math.max(c / (1 + c), (c * a) / (p + c * b)),
-      // Keep clear of the knife edges where a metric jumps (y0 on a level or band edge).
+      // The exact response (the family is filtered to keep y0 off the levels and band edges where a metric jumps).
       y: (t) => yF + (y0 - yF) * Math.exp(-lam * t),
     },
   };
