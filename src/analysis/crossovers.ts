@@ -17,6 +17,9 @@ import { brentRoot } from './scalar.js';
 
 const TWO_PI = 2 * Math.PI;
 
+/** A bracketed phase crossing must land this close to the level (Brent's tolerance leaves far less). */
+const CROSSING_TOL_RAD = 1e-6;
+
 /** Angle wrapped into (-pi, pi]. */
 export function wrapPi(x: number): number {
   const r = x - TWO_PI * Math.floor((x + Math.PI) / TWO_PI);
@@ -132,7 +135,8 @@ export function phaseCrossoversRadS(loop: TransferFunction, f: Factored, samples
       // One level per interval after refinement; take the one between the two ends.
       const level = -Math.PI + TWO_PI * Math.max(ka, kb);
       const u = brentRoot((x) => factoredAt(f, Math.exp(x), v)[1]! - level, Math.log(ws[i]!), Math.log(ws[i + 1]!));
-      found.push(Math.exp(u));
+      // A jump of the phase branch (no root in between) also changes sign: keep only real crossings.
+      if (Math.abs(factoredAt(f, Math.exp(u), v)[1]! - level) <= CROSSING_TOL_RAD) found.push(Math.exp(u));
     }
   }
   return uniqueSorted(found).filter((w) => Number.isFinite(factoredAt(f, w, v)[0]!));

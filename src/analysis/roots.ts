@@ -1,24 +1,27 @@
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
 import type { Complex, Poly } from '../model/tf.js';
+import { hessenbergEigenvalues } from './hessenberg-qr.js';
 import { polyTrim, polyEvalComplexWithDerivative } from './poly.js';
 
 /**
  * Polynomial roots as eigenvalues of the companion matrix.
  *
- * Why ml-matrix: it is a maintained general-purpose linear-algebra library whose
- * nonsymmetric eigen solver (Hessenberg reduction plus shifted QR) is accurate to
- * about machine precision on balanced matrices. The companion matrix is badly scaled
- * whenever the roots span decades, so we (1) strip exact zero roots, (2) scale the
- * variable by a power of two so the root magnitudes centre on 1, and (3) balance the
- * matrix by diagonal powers-of-two scaling before the QR iteration. Without (3)
- * results become useless from degree ~25 up. A guarded Newton step on the scaled
- * polynomial then polishes each root.
+ * The companion matrix is already upper Hessenberg, so its eigenvalues come from
+ * the Francis double-shift QR iteration on it directly (hessenberg-qr.ts), with no
+ * reduction and no Schur vectors; ml-matrix's general nonsymmetric solver (a
+ * maintained general-purpose library) stands by for the rare matrix on which that
+ * does not converge. The companion matrix is badly scaled whenever the roots span
+ * decades, so we (1) strip exact zero roots, (2) scale the variable by a power of
+ * two so the root magnitudes centre on 1, and (3) balance the matrix by diagonal
+ * powers-of-two scaling before the QR iteration. Without (3) results become
+ * useless from degree ~25 up. A guarded Newton step on the scaled polynomial then
+ * polishes each root.
  */
 
 const RADIX = 2;
 
-/** Balances a square matrix in place by diagonal similarity with powers of two (row/column norm equalisation). */
-function balance(a: Float64Array[], n: number): void {
+/** Balances a square matrix (row-major, n x n) in place by diagonal similarity with powers of two (row/column norm equalisation); a Hessenberg matrix stays Hessenberg. */
+function balance(a: Float64Array, n: number): void {
   const sqrdx = RADIX * RADIX;
   let done = false;
   for (let sweep = 0; !done && sweep < 100; sweep++) {
@@ -28,8 +31,8 @@ function balance(a: Float64Array[], n: number): void {
       let c = 0;
       for (let j = 0; j < n; j++) {
         if (j === i) continue;
-        c += Math.abs(a[j]![i]!);
-        r += Math.abs(a[i]![j]!);
+        c += Math.abs(a[j * n + i]!);
+        r += Math.abs(a[i * n + j]!);
       }
       if (c === 0 || r === 0) continue;
       let g = r / RADIX;
@@ -41,8 +44,8 @@ function balance(a: Float64Array[], n: number): void {
       if ((c + r) / f < 0.95 * s) {
         done = false;
         const gi = 1 / f;
-        for (let j = 0; j < n; j++) a[i]![j]! *= gi;
-        for (let j = 0; j < n; j++) a[j]![i]! *= f;
+        for (let j = 0; j < n; j++) a[i * n + j]! *= gi;
+        for (let j = 0; j < n; j++) a[j * n + i]! *= f;
       }
     }
   }
@@ -71,20 +74,26 @@ function polish(p: readonly number[], z: Complex, neighbourDist: number): Comple
   return { re, im };
 }
 
+/** Eigenvalues of a balanced companion matrix (row-major, n x n): the Hessenberg QR iteration, else the general eigen solver. */
+function companionEigenvalues(a: Float64Array, n: number): Complex[] {
+  const e = hessenbergEigenvalues(Float64Array.from(a), n);
+  if (e !== null && e.re.every(Number.isFinite) && e.im.every(Number.isFinite)) return Array.from(e.re, (re, i) => ({ re, im: e.im[i]! }));
+  // Not converged: the general solver (Hessenberg reduction, shifted QR with vectors) is slower but shifts differently.
+  const rows = Array.from({ length: n }, (_, i) => Array.from(a.subarray(i * n, (i + 1) * n)));
+  const evd = new EigenvalueDecomposition(new Matrix(rows), { assumeSymmetric: false });
+  return evd.realEigenvalues.map((re, i) => ({ re, im: evd.imaginaryEigenvalues[i]! }));
+}
+
 /** Roots of a monic-normalised polynomial q (ascending, q[0] != 0, degree >= 3) via the balanced companion matrix. */
 function companionRoots(q: readonly number[]): Complex[] {
   const n = q.length - 1;
   const lead = q[n]!;
-  const a: Float64Array[] = [];
-  for (let i = 0; i < n; i++) a.push(new Float64Array(n));
   // Upper Hessenberg companion: first row holds -q[n-1..0]/lead, ones on the subdiagonal.
-  for (let j = 0; j < n; j++) a[0]![j] = -q[n - 1 - j]! / lead;
-  for (let i = 1; i < n; i++) a[i]![i - 1] = 1;
+  const a = new Float64Array(n * n);
+  for (let j = 0; j < n; j++) a[j] = -q[n - 1 - j]! / lead;
+  for (let i = 1; i < n; i++) a[i * n + i - 1] = 1;
   balance(a, n);
-  const evd = new EigenvalueDecomposition(new Matrix(a.map((row) => Array.from(row))), { assumeSymmetric: false });
-  const re = evd.realEigenvalues;
-  const im = evd.imaginaryEigenvalues;
-  const raw: Complex[] = re.map((r, i) => ({ re: r, im: im[i]! }));
+  const raw = companionEigenvalues(a, n);
   // Polish the upper half-plane and real roots, mirror the rest so pairs stay exact conjugates.
   const out: Complex[] = [];
   for (let i = 0; i < raw.length; i++) {

@@ -1,5 +1,6 @@
 import type { Complex, TransferFunction } from '../model/tf.js';
 import { factoredAt, type Factored } from './factors.js';
+import { hypot2 } from './hypot.js';
 import { polyAdd, polyMul, polyEvalComplexWithDerivative } from './poly.js';
 import { polyRoots } from './roots.js';
 
@@ -8,6 +9,9 @@ import { polyRoots } from './roots.js';
  * closed loop itself: the roots of D + N without delay, and with a delay the
  * argument principle applied to the entire function F(s) = D(s) + N(s) e^{-sT}.
  */
+
+/** |F| below this many units of rounding (of evaluating F) counts as zero. */
+const ROUNDING_MULTIPLE = 16;
 
 /** A closed-loop pole counts as on the axis when |Re| is below this fraction of its magnitude. */
 const AXIS_TOL = 1e-10;
@@ -114,7 +118,20 @@ export function padeDelay(delayS: number, m: number): [number[], number[]] {
   return [num, den];
 }
 
-/** Newton's method on F(s) = D(s) + N(s) e^{-sT} from s0; the root, or null when it does not converge to a small residual. */
+/** sum |a_k| r^k: what rounding in evaluating a at any s with |s| = r is measured against. */
+function absPolyAt(a: readonly number[], r: number): number {
+  let v = 0;
+  for (let k = a.length - 1; k >= 0; k--) v = v * r + Math.abs(a[k]!);
+  return v;
+}
+
+/**
+ * Newton's method on F(s) = D(s) + N(s) e^{-sT} from s0; the root, or null when it
+ * does not converge to a small residual. A point where F is zero to working
+ * precision (below the rounding bound of evaluating it) is a root even when D and
+ * N vanish there together: a compensator zero on a plant pole, whose cancelled
+ * pole stays a closed-loop pole and must not be lost to rounding noise.
+ */
 function newtonDelayRoot(loop: TransferFunction, s0: Complex): Complex | null {
   const T = loop.delayS;
   let re = s0.re;
@@ -129,6 +146,8 @@ function newtonDelayRoot(loop: TransferFunction, s0: Complex): Complex | null {
     const nei = nr * ei + ni * er;
     const fr = dr + ner;
     const fi = di + nei;
+    const r = hypot2(re, im);
+    if (hypot2(fr, fi) <= ROUNDING_MULTIPLE * Number.EPSILON * (absPolyAt(loop.den, r) + mag * absPolyAt(loop.num, r))) return { re, im };
     // F' = D' + (N' - T N) e^{-sT}
     const gr = dnr - T * nr;
     const gi = dni - T * ni;
@@ -140,9 +159,9 @@ function newtonDelayRoot(loop: TransferFunction, s0: Complex): Complex | null {
     const si = (fi * fpr - fr * fpi) / den;
     re -= sr;
     im -= si;
-    const scale = Math.hypot(dr, di) + Math.hypot(ner, nei);
-    if (Math.hypot(sr, si) <= 1e-15 * Math.hypot(re, im)) {
-      return Math.hypot(fr, fi) <= 1e-10 * scale ? { re, im } : null;
+    const scale = hypot2(dr, di) + hypot2(ner, nei);
+    if (hypot2(sr, si) <= 1e-15 * hypot2(re, im)) {
+      return hypot2(fr, fi) <= 1e-10 * scale ? { re, im } : null;
     }
   }
   return null;
