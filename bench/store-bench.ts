@@ -6,13 +6,16 @@ import { fileURLToPath } from 'node:url';
 import { prettyJson } from '../src/engine/canonical-json.js';
 import { DUMP_FORMAT, DUMP_FORMAT_VERSION, type AxisDump, type LoopDump, type MachineDump } from '../src/engine/dump.js';
 import { loadMachine } from '../src/engine/index.js';
+import { closeAnalysisPool } from '../src/engine/pool.js';
+import { configurePool, poolSettings } from '../src/engine/pool-setup.js';
 import type { LoopState } from '../src/engine/types.js';
 import type { Block } from '../src/model/blocks.js';
 
 /**
  * Store and engine figures: a machine of 1,000 loops (250 axes, each a current ->
  * velocity -> position cascade plus one stand-alone loop), then
- *  - a full recheck (every loop analysed again),
+ *  - a full recheck (every loop analysed again), as configured (workers by core count,
+ *    LOOPLEDGER_WORKERS), then once more on worker threads beside the main thread,
  *  - one inner-loop change with its propagation to the two loops outside it,
  *  - a warm in-process check (all results fresh: reads only),
  *  - a cold `loopledger check --json` process on this store and on the demo store.
@@ -91,9 +94,21 @@ export async function benchStore(): Promise<string[]> {
     const loops = m.listLoops().length;
     lines.push(`store: ${loops} loops on ${AXES} axes loaded and checked in ${fmt(ms(t0))} ms`);
 
+    const { workers } = poolSettings();
     t0 = process.hrtime.bigint();
     const all = await m.recheckAll();
-    lines.push(`full recheck of ${all.reanalysed} loops: ${fmt(ms(t0))} ms (target < 1000 ms); ${all.counts.pass} pass, ${all.counts.fail} fail, ${all.counts.unstable} unstable, ${all.counts.error} error`);
+    const how = workers === 0 ? 'on the main thread' : `on the main thread and ${workers} worker${workers === 1 ? '' : 's'}`;
+    lines.push(`full recheck of ${all.reanalysed} loops ${how}: ${fmt(ms(t0))} ms (target < 1000 ms); ${all.counts.pass} pass, ${all.counts.fail} fail, ${all.counts.unstable} unstable, ${all.counts.error} error`);
+
+    // The same with the pool forced on (a core count of 2 leaves it off by default), for comparison.
+    const forced = Math.max(1, workers);
+    configurePool({ workers: forced });
+    await m.recheckAll(); // starts the workers and warms them, as a long-lived process would have
+    t0 = process.hrtime.bigint();
+    await m.recheckAll();
+    lines.push(`  the same on the main thread and ${forced} worker${forced === 1 ? '' : 's'} (warm): ${fmt(ms(t0))} ms`);
+    configurePool({});
+    closeAnalysisPool();
 
     const changes: number[] = [];
     for (let i = 0; i < 5; i++) {
