@@ -54,6 +54,7 @@ export class AnalysisPool {
   readonly analysed = { byWorkers: 0, byMain: 0 };
 
   private readonly stallMs: number;
+  private readonly starts: Promise<void>[] = [];
 
   constructor(workers: number, src: URL, opts: { stallMs?: number } = {}) {
     this.stallMs = opts.stallMs ?? STALL_MS;
@@ -65,6 +66,11 @@ export class AnalysisPool {
       // Seen once the main thread is back in its event loop: the next run does without this worker (never a crash).
       worker.on('error', () => { slot.alive = false; });
       worker.on('exit', () => { slot.alive = false; });
+      this.starts.push(new Promise((resolve) => {
+        worker.once('message', () => { slot.ready = true; resolve(); });
+        worker.once('error', () => resolve());
+        worker.once('exit', () => resolve());
+      }));
       // Neither may keep the process alive: a finished command exits with its workers idle.
       worker.unref();
       port1.unref();
@@ -74,6 +80,11 @@ export class AnalysisPool {
 
   get size(): number {
     return this.slots.length;
+  }
+
+  /** Resolves once every worker has started (or failed to): a run then hands work to all of them from the first batch. */
+  started(): Promise<void> {
+    return Promise.all(this.starts).then(() => undefined);
   }
 
   /**
@@ -158,6 +169,12 @@ export class AnalysisPool {
         continue;
       }
       if (got) continue;
+      // Workers still starting: take their batches back rather than wait (what they post later is ignored).
+      const unstarted = [...open.values()].filter((b) => !b.slot.ready);
+      if (unstarted.length > 0) {
+        for (const b of unstarted) requeue(b);
+        continue;
+      }
       const limit = this.slots.some((s) => s.ready) ? this.stallMs : Math.min(BOOT_MS, this.stallMs);
       if (this.broken || Date.now() - lastPost > limit) {
         this.broken = true;

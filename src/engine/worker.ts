@@ -1,4 +1,4 @@
-import { workerData, type MessagePort } from 'node:worker_threads';
+import { parentPort, workerData, type MessagePort } from 'node:worker_threads';
 import type { Evaluator, RecheckTask } from './pool-task.js';
 import type { FromWorker, ToWorker, WorkerData } from './pool-protocol.js';
 
@@ -30,6 +30,8 @@ try {
     }
   });
   post({ kind: 'ready' });
+  // Also as an event, for a caller that awaits the start instead of blocking on it.
+  parentPort?.postMessage('ready');
 } catch (e) {
   post({ kind: 'fatal', error: message(e) });
 }

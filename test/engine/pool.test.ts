@@ -6,7 +6,7 @@ import { parseCanonical, prettyJson } from '../../src/engine/canonical-json.js';
 import type { MachineDump } from '../../src/engine/dump.js';
 import { loadMachine, type Machine } from '../../src/engine/index.js';
 import { analysisPool, AnalysisPool, closeAnalysisPool } from '../../src/engine/pool.js';
-import { configurePool, workerExecArgv } from '../../src/engine/pool-setup.js';
+import { configurePool, defaultWorkers, workerExecArgv } from '../../src/engine/pool-setup.js';
 import { runTask, type RecheckTask } from '../../src/engine/pool-task.js';
 import { loadEvaluator } from '../../src/engine/recheck.js';
 import type { LoopState } from '../../src/engine/types.js';
@@ -61,6 +61,9 @@ describe('recheck on the worker pool', () => {
     const dump = variedDump(6);
     const serial = await loadWith(0, dump);
     closeAnalysisPool();
+    configurePool({ workers: 2 });
+    // Started workers: a cold pool would leave the main thread all of a run this small.
+    await analysisPool()!.started();
     const parallel = await loadWith(2, dump);
     // A worker did part of the analysis: agreement is not the main thread alone.
     const shares = { ...analysisPool()!.analysed };
@@ -119,8 +122,11 @@ describe('the pool when workers fail', () => {
     const expected = new Map(tasks.flatMap((t) => runTask(ev, t)).map((c) => [c.id, c]));
     const pool = new AnalysisPool(2, workerUrl(`post({ kind: 'fatal', error: 'no analysis here' });`));
     expect(pool.run(tasks, ev)).toStrictEqual(expected);
+    // Once the workers have had time to say so, a run knows they are of no use.
+    await pool.started();
+    expect(pool.run(tasks, ev)).toStrictEqual(expected);
     expect(pool.broken).toBe(true);
-    expect(pool.analysed).toStrictEqual({ byWorkers: 0, byMain: 9 });
+    expect(pool.analysed).toStrictEqual({ byWorkers: 0, byMain: 18 });
   });
 
   it('runs a batch on the main thread when a worker reports it failed', async () => {
@@ -136,9 +142,26 @@ describe('the pool when workers fail', () => {
     }
   });
 
-  it('takes over from workers that never answer', async () => {
+  it('does not wait for workers that are still starting: it takes their batches back', async () => {
     const ev = await loadEvaluator();
-    const pool = new AnalysisPool(2, workerUrl(`port.on('message', () => {});`), { stallMs: 200 });
+    const pool = new AnalysisPool(2, workerUrl(`port.on('message', () => {});`), { stallMs: 60_000 });
+    try {
+      const t0 = Date.now();
+      const out = pool.run(tasks, ev);
+      expect([...out.keys()].sort((a, b) => a - b)).toStrictEqual([1, 2, 3, 4, 5, 6, 7, 8, 9]);
+      expect(Date.now() - t0).toBeLessThan(30_000); // far below the stall limit: nothing waited for it
+      expect(pool.analysed).toStrictEqual({ byWorkers: 0, byMain: 9 });
+      expect(pool.broken).toBe(false);
+    } finally {
+      pool.close();
+    }
+  });
+
+  it('takes over from workers that started but never answer', async () => {
+    const ev = await loadEvaluator();
+    const pool = new AnalysisPool(2, workerUrl(`post({ kind: 'ready' });\nimport('node:worker_threads').then((w) => w.parentPort.postMessage('ready'));\nport.on('message', () => {});`), { stallMs: 200 });
+    // Both said they are ready, so their batches count as started.
+    await pool.started();
     const out = pool.run(tasks.slice(0, 3), ev);
     expect([...out.keys()].sort()).toStrictEqual([1, 2, 3]);
     expect(pool.broken).toBe(true);
@@ -149,9 +172,10 @@ describe('the pool when workers fail', () => {
     const expected = new Map(tasks.flatMap((t) => runTask(ev, t)).map((c) => [c.id, c]));
     const pool = new AnalysisPool(2, workerUrl(`throw new Error('dies at start');`), { stallMs: 300 });
     expect(pool.run(tasks, ev)).toStrictEqual(expected);
+    // The workers' error events arrive: they are handled, not thrown, and the next run knows.
+    await pool.started();
+    expect(pool.run(tasks, ev)).toStrictEqual(expected);
     expect(pool.broken).toBe(true);
-    // Let the workers' error events arrive: they are handled, not thrown.
-    await new Promise((r) => setTimeout(r, 100));
   });
 
   it('throws what the serial path throws when a task itself is bad', async () => {
@@ -168,6 +192,10 @@ describe('the pool when workers fail', () => {
 });
 
 describe('worker options', () => {
+  it('leaves one core to the main thread and one to V8 itself: no workers on 2 cores, at most 3', () => {
+    expect([1, 2, 3, 4, 6, 64].map(defaultWorkers)).toStrictEqual([0, 0, 1, 2, 3, 3]);
+  });
+
   it('drops how the main program was started and keeps how threads run', () => {
     expect(workerExecArgv(['--input-type=module', '-e', 'code', '--cpu-prof', '--import', 'tsx', '--max-old-space-size=512', '-r', 'x.cjs', '--require=y.cjs', '--stack-size=900']))
       .toStrictEqual(['--cpu-prof', '--max-old-space-size=512', '--stack-size=900']);
