@@ -54,8 +54,10 @@ function key(env: RecheckEnv, id: number): { revision: number; hash: string | nu
  * its loop id goes into `unreadable`, so the fresh result replaces it.
  */
 export function storedResult(env: RecheckEnv, id: number, unreadable?: Set<number>): LoopResult | null {
-  if (env.recompute?.has(id)) return null;
-  const k = key(env, id);
+  return env.recompute?.has(id) ? null : storedUnder(env, id, key(env, id), unreadable);
+}
+
+function storedUnder(env: RecheckEnv, id: number, k: { revision: number; hash: string | null }, unreadable?: Set<number>): LoopResult | null {
   if (k.hash === null) return null;
   const row = env.sql.result(id, k.revision, k.hash);
   if (!row) return null;
@@ -75,21 +77,25 @@ export function storedResult(env: RecheckEnv, id: number, unreadable?: Set<numbe
 export function recheck(env: RecheckEnv, ids: Iterable<number>): Map<number, LoopResult> {
   const results = new Map<number, LoopResult>();
   const unreadable = new Set<number>();
-  const stale: number[] = [];
+  // Keys of the stale loops, worked out once (each is a hash over the loop's inputs).
+  const keys = new Map<number, { revision: number; hash: string | null }>();
   for (const id of env.graph.withInnerChains(ids)) {
-    const stored = storedResult(env, id, unreadable);
+    const k = key(env, id);
+    const stored = env.recompute?.has(id) ? null : storedUnder(env, id, k, unreadable);
     if (stored !== null) results.set(id, stored);
-    else stale.push(id);
+    else keys.set(id, k);
   }
+  const stale = [...keys.keys()];
   if (stale.length === 0) return results;
   if (env.ev === null) throw new Error('recheck: analysis needed but not loaded');
+  const taskKey = (id: number): TaskLoopKey => ({ id, revision: keys.get(id)!.revision, inputHash: keys.get(id)!.hash ?? 'unsaved' });
   const pool = stale.length >= poolSettings().minLoops ? analysisPool() : null;
-  const computed = pool !== null ? pool.run(tasksFor(env, stale, results), env.ev) : analyseHere(env, env.ev, stale, results);
+  const computed = pool !== null ? pool.run(tasksFor(env, stale, results, taskKey), env.ev) : analyseHere(env, env.ev, stale, results, taskKey);
   for (const id of stale) {
     const c = computed.get(id);
     if (c === undefined) throw new Error(`recheck: no result for ${env.graph.ref(id)}`);
     if (env.counter) env.counter.analysed++;
-    const k = key(env, id);
+    const k = keys.get(id)!;
     if (env.store && k.hash !== null) {
       const row = { loop_id: id, revision: k.revision, input_hash: k.hash, status: c.result.status, result_json: c.json ?? canonicalJson(c.result), computed_at: env.computedAt };
       if (unreadable.has(id)) env.sql.replaceResult(row);
@@ -100,20 +106,15 @@ export function recheck(env: RecheckEnv, ids: Iterable<number>): Map<number, Loo
   return results;
 }
 
-function taskKey(env: RecheckEnv, id: number): TaskLoopKey {
-  const k = key(env, id);
-  return { id, revision: k.revision, inputHash: k.hash ?? 'unsaved' };
-}
-
 /** Analyses stale loops (inner before outer) on this thread; `fresh` holds the stored results. */
-function analyseHere(env: RecheckEnv, ev: Evaluator, stale: readonly number[], fresh: ReadonlyMap<number, LoopResult>): Map<number, Computed> {
+function analyseHere(env: RecheckEnv, ev: Evaluator, stale: readonly number[], fresh: ReadonlyMap<number, LoopResult>, taskKey: (id: number) => TaskLoopKey): Map<number, Computed> {
   const { graph } = env;
   const cascade = new ev.Cascade((x) => ({ ref: graph.ref(x), state: stateOf(env, x), innerId: graph.loop(x).inner_loop_id }));
   const out = new Map<number, Computed>();
   for (const id of stale) {
     const innerId = graph.loop(id).inner_loop_id;
     const inner = innerId === null ? null : (out.get(innerId)?.result ?? fresh.get(innerId)!);
-    out.set(id, evaluateOne(ev, cascade, graph.ref(id), taskKey(env, id), innerId, inner, env.computedAt, graph.unit, env.store));
+    out.set(id, evaluateOne(ev, cascade, graph.ref(id), taskKey(id), innerId, inner, env.computedAt, graph.unit, env.store));
   }
   return out;
 }
@@ -126,7 +127,7 @@ function innermost(graph: LoopGraph, id: number): number {
 }
 
 /** One task per cascade tree, holding the states of its loops and the stored results of fresh inner loops. */
-function tasksFor(env: RecheckEnv, stale: readonly number[], fresh: ReadonlyMap<number, LoopResult>): RecheckTask[] {
+function tasksFor(env: RecheckEnv, stale: readonly number[], fresh: ReadonlyMap<number, LoopResult>, taskKey: (id: number) => TaskLoopKey): RecheckTask[] {
   const { graph } = env;
   const trees = new Map<number, number[]>();
   for (const id of stale) {
@@ -144,7 +145,7 @@ function tasksFor(env: RecheckEnv, stale: readonly number[], fresh: ReadonlyMap<
     }
     return {
       loops: graph.withInnerChains(ids).map((x) => ({ id: x, ref: graph.ref(x), state: stateOf(env, x), innerId: graph.loop(x).inner_loop_id })),
-      analyse: ids.map((id) => taskKey(env, id)),
+      analyse: ids.map(taskKey),
       known: [...known].map(([id, result]) => ({ id, result })),
       computedAt: env.computedAt,
       unit: graph.unit,
