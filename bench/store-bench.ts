@@ -100,13 +100,22 @@ export async function benchStore(): Promise<string[]> {
     const how = workers === 0 ? 'on the main thread' : `on the main thread and ${workers} worker${workers === 1 ? '' : 's'}`;
     lines.push(`full recheck of ${all.reanalysed} loops ${how}: ${fmt(ms(t0))} ms (target < 1000 ms); ${all.counts.pass} pass, ${all.counts.fail} fail, ${all.counts.unstable} unstable, ${all.counts.error} error`);
 
-    // The same with the pool forced on (a core count of 2 leaves it off by default), for comparison.
+    // The pool against the main thread alone, taking turns so both see the same JIT warmth and machine load.
     const forced = Math.max(1, workers);
     configurePool({ workers: forced });
-    await m.recheckAll(); // starts the workers and warms them, as a long-lived process would have
-    t0 = process.hrtime.bigint();
-    await m.recheckAll();
-    lines.push(`  the same on the main thread and ${forced} worker${forced === 1 ? '' : 's'} (warm): ${fmt(ms(t0))} ms`);
+    await m.recheckAll(); // starts and warms the workers, as a long-lived process would have
+    const alone: number[] = [];
+    const pooled: number[] = [];
+    for (let i = 0; i < 3; i++) {
+      for (const [w, into] of [[0, alone], [forced, pooled]] as const) {
+        configurePool({ workers: w });
+        t0 = process.hrtime.bigint();
+        await m.recheckAll();
+        into.push(ms(t0));
+      }
+    }
+    const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[xs.length >> 1]!;
+    lines.push(`  taking turns, median of 3: ${fmt(median(alone))} ms on the main thread alone, ${fmt(median(pooled))} ms with ${forced} worker${forced === 1 ? '' : 's'} beside it`);
     configurePool({});
     closeAnalysisPool();
 
