@@ -206,11 +206,12 @@ let shared: AnalysisPool | null = null;
  */
 export function analysisPool(): AnalysisPool | null {
   const { workers } = poolSettings();
+  // Turned off for a while (workers = 0), a started pool stays for later; another size replaces it.
+  if (workers < 1) return null;
   if (shared !== null && (shared.broken || shared.size !== workers)) {
     shared.close();
     shared = null;
   }
-  if (workers < 1) return null;
   if (shared === null) {
     const src = workerSource();
     if (src === null) return null;
