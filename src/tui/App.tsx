@@ -1,6 +1,6 @@
 import { Box, Text, useApp, useInput, useStdin } from 'ink';
 import { useCallback, useEffect, useMemo, useReducer, useRef, useState } from 'react';
-import { act, backspace, editLoaded, proposed, saveDone, typeText, type ActContext, type Effect } from './actions.js';
+import { act, backspace, clearTyped, editLoaded, proposed, saveDone, typeText, type ActContext, type Effect } from './actions.js';
 import { buildFrame } from './build-screen.js';
 import { currentScreen, initialState, type DashState } from './dash-state.js';
 import { keyNames } from './key-name.js';
@@ -130,7 +130,7 @@ export function App({ source, colour, pollMs = 1000, now = Date.now }: AppProps)
           update(() => step.state);
           if (step.effect) void runEffect(step.effect);
         } else if (s.typing !== null) {
-          update((x) => (name === 'backspace' ? backspace(x) : typeText(x, [name])));
+          update((x) => (name === 'backspace' ? backspace(x) : name === 'ctrl-u' ? clearTyped(x) : typeText(x, [name])));
         }
       }
     },

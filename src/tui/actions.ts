@@ -146,7 +146,16 @@ export function typeText(s: DashState, chars: readonly string[]): DashState {
 
 /** Deletes the last typed character. */
 export function backspace(s: DashState): DashState {
-  const cut = (t: string) => Array.from(t).slice(0, -1).join('');
+  return editTyped(s, (t) => Array.from(t).slice(0, -1).join(''));
+}
+
+/** Clears what is being typed (Ctrl-U, as in a shell). */
+export function clearTyped(s: DashState): DashState {
+  return editTyped(s, () => '');
+}
+
+/** Applies `cut` to the text being typed. */
+function editTyped(s: DashState, cut: (t: string) => string): DashState {
   if (s.typing === 'filter') return { ...s, filter: cut(s.filter) };
   if (s.typing === 'note') return { ...s, note: cut(s.note) };
   if (s.typing === 'field' && s.edit) return { ...s, edit: { ...editRows(s.edit, s.edit.cursor, cut(editField(s.edit))), fieldBefore: s.edit.fieldBefore } };

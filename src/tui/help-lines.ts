@@ -33,12 +33,22 @@ export function footerLine(scope: KeyScope, width: number, table: readonly KeyBi
   const shown = unique(activeBindings(scope, table).filter((b) => b.showInFooter));
   // Help and quit are what a lost user looks for: they keep their place at the end even when the rest is cut.
   const last = shown.filter((b) => b.handler === 'help' || b.handler === 'quit');
-  const text = (bs: KeyBinding[]) => bs.map((b) => `${b.keyLabel} ${b.label}`).join('  ');
-  const tail = text(last);
-  const head = text(shown.filter((b) => !last.includes(b)));
-  if (head === '') return truncate(tail, width);
-  if (tail === '') return truncate(head, width);
-  return truncate(head, Math.max(1, width - tail.length - 2)) + '  ' + tail;
+  const item = (b: KeyBinding) => `${b.keyLabel} ${b.label}`;
+  const tail = last.map(item).join('  ');
+  const rest = shown.filter((b) => !last.includes(b)).map(item);
+  // Whole items only, in table order, while they fit before the tail; a cut item is no use to anyone.
+  const room = width - (tail === '' ? 0 : tail.length + 2);
+  const head: string[] = [];
+  for (const it of rest) {
+    const next = [...head, it].join('  ');
+    if (next.length + (head.length + 1 < rest.length ? 3 : 0) > room) break;
+    head.push(it);
+  }
+  const more = head.length < rest.length ? (head.length === 0 ? '…' : '  …') : '';
+  const line = head.join('  ') + more;
+  if (line === '') return truncate(tail, width);
+  if (tail === '') return truncate(line, width);
+  return truncate(line + '  ' + tail, width);
 }
 
 const KEY_SPELLING: Record<string, string> = {
@@ -71,6 +81,7 @@ export function helpLines(width: number, table: readonly KeyBinding[] = KEY_TABL
   const typing = (['filter', 'field', 'note'] as const).flatMap((t) => activeBindings(everything('edit', t), table));
   out.push('', 'While typing (filter, a block or requirement, a note)', ...typing.map(row));
   out.push(truncate(`  ${'Backspace'.padEnd(keyWidth)}delete the last character`, width));
+  out.push(truncate(`  ${'ctrl-u'.padEnd(keyWidth)}clear the text`, width));
   out.push('', 'Status: + pass  x fail  ! unstable  ? error (cannot be analysed)');
   out.push('Worst miss: the first requirement missed, "+N" when N more also miss.');
   out.push('Sketches: ":" marks a gain crossover, "." the 0 dB, -180 deg and final-value rows.');

@@ -92,11 +92,11 @@ export const KEY_TABLE: readonly KeyBinding[] = [
   bind(['space', 'm'], 'Space', 'mark', 'mark a revision to compare', 'mark', selected('history')),
   bind(['enter', 'c'], 'Enter', 'compare', 'compare with the marked (or the previous) revision', 'compare', selected('history')),
   // Edit.
+  bind(['s'], 's', 'save', 'save as a new revision (asks for a note)', 'save', on('edit')),
   bind(['enter'], 'Enter', 'change', 'change the selected block or requirement', 'fieldEdit', selected('edit')),
   bind(['a'], 'a', 'add block', 'add a block', 'addBlock', on('edit')),
   bind(['r'], 'r', 'add req', 'add a requirement', 'addRequirement', on('edit')),
   bind(['d'], 'd', 'remove', 'remove the selected row', 'remove', selected('edit')),
-  bind(['s'], 's', 'save', 'save as a new revision (asks for a note)', 'save', on('edit')),
   // Tune.
   bind(['enter'], 'Enter', 'run', 'run the selected method', 'run', selected('tune')),
   bind(['s'], 's', 'save', 'save the proposal as a new revision (asks for a note)', 'apply', (s) => on('tune')(s) && s.hasProposal),

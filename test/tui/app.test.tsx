@@ -189,5 +189,7 @@ describe('dashboard', () => {
     await ui.see('name contains "q_"');
     await ui.press('j');
     await ui.see('name contains "qj_"');
+    await ui.press('\u0015'); // ctrl-u clears the text, as in a shell
+    await ui.see('name contains "_"');
   });
 });

@@ -44,6 +44,16 @@ describe('key table', () => {
     }
   });
 
+  it('cuts the footer between items, never inside one, and shows save while editing', () => {
+    for (const scope of allScopes()) {
+      const line = footerLine(scope, 80);
+      expect(line, JSON.stringify(scope)).not.toMatch(/\S…/);
+    }
+    const edit = [...allScopes()].find((s) => s.screen === 'edit' && s.typing === null && !s.help);
+    expect(edit).toBeDefined();
+    expect(footerLine(edit!, 80)).toContain('s save');
+  });
+
   it('lists every binding on the help screen', () => {
     const text = helpLines(100).join('\n');
     for (const b of KEY_TABLE) expect(text, b.help).toContain(`${helpKeys(b)}`);
