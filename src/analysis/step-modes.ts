@@ -1,5 +1,5 @@
-import type { Complex, Poly, TransferFunction } from '../model/tf.js';
-import { polyAdd, polyDerivative, polyEvalComplex, polyMul, polyScale } from './poly.js';
+import type { Complex, TransferFunction } from '../model/tf.js';
+import { polyAdd, polyDerivative, polyMul, polyScale } from './poly.js';
 
 /**
  * How much each closed-loop mode contributes to the unit-step response y and effort u,
@@ -16,7 +16,8 @@ import { polyAdd, polyDerivative, polyEvalComplex, polyMul, polyScale } from './
  * is taken from the Laurent coefficients b_j of Y(s)/s about the cluster centre c, found
  * by the trapezoidal rule on a circle around the cluster. The circle keeps its distance
  * from the roots, so nothing there divides by a near-zero, and a cancelled pole simply
- * gets b_j = 0.
+ * gets b_j = 0. A lone listed pole that is a clean simple root (checked, see simpleResidues)
+ * skips the circle: there the residue formula is exact and some twenty times cheaper.
  */
 
 /** One term |amp| t^power / power! e^((Re p + spread) t) bounding part of the response. */
@@ -55,69 +56,116 @@ const NOISE = 1e-10;
 
 type C = [number, number];
 
-const mul = (a: C, b: C): C => [a[0] * b[0] - a[1] * b[1], a[0] * b[1] + a[1] * b[0]];
-function div(a: C, b: C): C {
-  const d = b[0] * b[0] + b[1] * b[1];
-  return [(a[0] * b[0] + a[1] * b[1]) / d, (a[1] * b[0] - a[0] * b[1]) / d];
-}
 const dist = (a: Complex, b: Complex) => Math.hypot(a.re - b.re, a.im - b.im);
+const norm = (re: number, im: number) => Math.sqrt(re * re + im * im);
 
-/** The loop's polynomials: Delta(s) = D + N e^(-sT), Y/s = N e^(-sT) / (s Delta), U/s = Nu / (s Delta). */
+/**
+ * The loop's polynomials, Delta(s) = D + N e^(-sT), Y/s = N e^(-sT) / (s Delta), U/s = Nu / (s Delta),
+ * and N' - T N and D' for Delta'. Float64Arrays because every mode evaluates them many times.
+ */
 interface LoopPolys {
-  readonly n: Poly;
-  readonly d: Poly;
-  readonly nu: Poly;
+  readonly n: Float64Array;
+  readonly d: Float64Array;
+  readonly nu: Float64Array;
+  readonly dn: Float64Array;
+  readonly dd: Float64Array;
   readonly delayS: number;
 }
 
-/** e^(-sT) at s. */
-function delayFactor(s: Complex, delayS: number): C {
-  const mag = Math.exp(-s.re * delayS);
-  return [mag * Math.cos(-s.im * delayS), mag * Math.sin(-s.im * delayS)];
+/** Horner's rule at re + j im: the value lands in hr, hi and sum |a_k| |s|^k in habs (no allocation on this hot path). */
+let hr = 0, hi = 0, habs = 0;
+function horner(a: Float64Array, re: number, im: number): void {
+  let vr = 0, vi = 0, va = 0;
+  const m = norm(re, im);
+  for (let k = a.length - 1; k >= 0; k--) {
+    const nr = vr * re - vi * im + a[k]!;
+    vi = vr * im + vi * re;
+    vr = nr;
+    va = va * m + Math.abs(a[k]!);
+  }
+  hr = vr; hi = vi; habs = va;
 }
 
-/** Residues of Y/s and U/s at a simple pole p (the classic formula). */
-function simpleResidues(lp: LoopPolys, p: Complex): [C, C] {
-  const e = delayFactor(p, lp.delayS);
-  // Delta' = D' + (N' - T N) e^(-sT)
-  const dd = polyEvalComplex(polyDerivative(lp.d), p.re, p.im);
-  const np = polyEvalComplex(polyAdd(polyDerivative(lp.n), polyScale(lp.n, -lp.delayS)), p.re, p.im);
-  const ne = mul(np, e);
-  const q = mul([p.re, p.im], [dd[0] + ne[0], dd[1] + ne[1]]);
-  const y = div(mul(polyEvalComplex(lp.n, p.re, p.im), e), q);
-  const u = div(polyEvalComplex(lp.nu, p.re, p.im), q);
-  return [y, u];
+/** Unit roots of the trapezoidal rule: the nodes are c + r (COS[m] + j SIN[m]), and z_m^j = r^j w^(m j mod NODES). */
+const COS = new Float64Array(NODES);
+const SIN = new Float64Array(NODES);
+for (let m = 0; m < NODES; m++) { COS[m] = Math.cos((2 * Math.PI * m) / NODES); SIN[m] = Math.sin((2 * Math.PI * m) / NODES); }
+/** Samples of Y/s and U/s on the circle, reused by every cluster (re, im interleaved). */
+const FY = new Float64Array(2 * NODES);
+const FU = new Float64Array(2 * NODES);
+
+/**
+ * A listed pole gets the classic residue only where that formula means what it says: its
+ * point is a root (a Newton step from it stays within ROOT_TOL of the room around it) and a
+ * simple, well-conditioned one (|p Delta'(p)| at least CONDITION times the sum of the sizes
+ * of the terms of Delta at p: a double root refined to rounding, or two delay roots merged
+ * as one, stays orders of magnitude below).
+ */
+const ROOT_TOL = 1e-6;
+const CONDITION = 1e-4;
+
+/**
+ * Sizes of the residues of Y/s and U/s at p by the classic formula N(p) e^(-pT) / (p Delta'(p)),
+ * and whether p is a clean simple root for it; room is the distance to the nearest other pole.
+ */
+function simpleResidues(lp: LoopPolys, p: Complex, room: number): { y: number; u: number; clean: boolean } {
+  const mag = Math.exp(-p.re * lp.delayS);
+  const er = lp.delayS > 0 ? mag * Math.cos(-p.im * lp.delayS) : 1;
+  const ei = lp.delayS > 0 ? mag * Math.sin(-p.im * lp.delayS) : 0;
+  horner(lp.n, p.re, p.im);
+  const nr = hr * er - hi * ei, ni = hr * ei + hi * er, nAbs = habs * mag;
+  horner(lp.d, p.re, p.im);
+  const deltaAbs = norm(hr + nr, hi + ni), scale = habs + nAbs;
+  horner(lp.dn, p.re, p.im);
+  // Delta' = D' + (N' - T N) e^(-sT), times p.
+  const gr = hr * er - hi * ei, gi = hr * ei + hi * er;
+  horner(lp.dd, p.re, p.im);
+  const ddr = hr + gr, ddi = hi + gi;
+  const qAbs = norm(p.re * ddr - p.im * ddi, p.re * ddi + p.im * ddr);
+  horner(lp.nu, p.re, p.im);
+  const y = norm(nr, ni) / qAbs, u = norm(hr, hi) / qAbs;
+  // The Newton step |Delta / Delta'| is |p Delta| / |p Delta'|.
+  const clean = qAbs >= CONDITION * scale && norm(p.re, p.im) * deltaAbs <= ROOT_TOL * room * qAbs && Number.isFinite(y) && Number.isFinite(u);
+  return { y, u, clean };
 }
 
-/** Laurent coefficients b_1..b_k of Y/s and U/s about c, by the trapezoidal rule on the circle |s - c| = r. */
-function laurent(lp: LoopPolys, c: Complex, r: number, k: number): { y: C[]; u: C[] } {
-  const y: C[] = Array.from({ length: k }, () => [0, 0]);
-  const u: C[] = Array.from({ length: k }, () => [0, 0]);
+/** Sizes |b_1|..|b_k| of the Laurent coefficients of Y/s and U/s about c, by the trapezoidal rule on the circle |s - c| = r. */
+function laurent(lp: LoopPolys, c: Complex, r: number, k: number): { y: number[]; u: number[] } {
   let maxY = 0, maxU = 0;
   for (let m = 0; m < NODES; m++) {
-    const th = (2 * Math.PI * m) / NODES;
-    const z: C = [r * Math.cos(th), r * Math.sin(th)];
-    const s: Complex = { re: c.re + z[0], im: c.im + z[1] };
-    const e = delayFactor(s, lp.delayS);
-    const nv = polyEvalComplex(lp.n, s.re, s.im);
-    const ne = mul(nv, e);
-    const dv = polyEvalComplex(lp.d, s.re, s.im);
-    const sDelta = mul([s.re, s.im], [dv[0] + ne[0], dv[1] + ne[1]]);
-    let fy = div(ne, sDelta);
-    let fu = div(polyEvalComplex(lp.nu, s.re, s.im), sDelta);
-    maxY = Math.max(maxY, Math.hypot(fy[0], fy[1]));
-    maxU = Math.max(maxU, Math.hypot(fu[0], fu[1]));
-    // b_j = (1/NODES) sum F(s_m) z_m^j.
-    for (let j = 0; j < k; j++) {
-      fy = mul(fy, z);
-      fu = mul(fu, z);
-      y[j]![0] += fy[0] / NODES; y[j]![1] += fy[1] / NODES;
-      u[j]![0] += fu[0] / NODES; u[j]![1] += fu[1] / NODES;
+    const sr = c.re + r * COS[m]!, si = c.im + r * SIN[m]!;
+    let er = 1, ei = 0;
+    if (lp.delayS > 0) {
+      const mag = Math.exp(-sr * lp.delayS);
+      er = mag * Math.cos(-si * lp.delayS); ei = mag * Math.sin(-si * lp.delayS);
     }
+    horner(lp.n, sr, si);
+    const ner = hr * er - hi * ei, nei = hr * ei + hi * er;
+    horner(lp.d, sr, si);
+    const ar = hr + ner, ai = hi + nei;
+    // 1 / (s Delta).
+    const qr = sr * ar - si * ai, qi = sr * ai + si * ar;
+    const q2 = qr * qr + qi * qi;
+    const ir = qr / q2, ii = -qi / q2;
+    FY[2 * m] = ner * ir - nei * ii; FY[2 * m + 1] = ner * ii + nei * ir;
+    horner(lp.nu, sr, si);
+    FU[2 * m] = hr * ir - hi * ii; FU[2 * m + 1] = hr * ii + hi * ir;
+    maxY = Math.max(maxY, norm(FY[2 * m]!, FY[2 * m + 1]!));
+    maxU = Math.max(maxU, norm(FU[2 * m]!, FU[2 * m + 1]!));
   }
-  for (let j = 0, rj = r; j < k; j++, rj *= r) {
-    if (Math.hypot(...y[j]!) <= NOISE * maxY * rj) y[j] = [0, 0];
-    if (Math.hypot(...u[j]!) <= NOISE * maxU * rj) u[j] = [0, 0];
+  const y: number[] = [], u: number[] = [];
+  for (let j = 1, rj = r; j <= k; j++, rj *= r) {
+    // b_j = (r^j / NODES) sum F(s_m) w^(m j).
+    let yr = 0, yi = 0, ur = 0, ui = 0;
+    for (let m = 0; m < NODES; m++) {
+      const idx = (m * j) % NODES, wr = COS[idx]!, wi = SIN[idx]!;
+      yr += FY[2 * m]! * wr - FY[2 * m + 1]! * wi; yi += FY[2 * m]! * wi + FY[2 * m + 1]! * wr;
+      ur += FU[2 * m]! * wr - FU[2 * m + 1]! * wi; ui += FU[2 * m]! * wi + FU[2 * m + 1]! * wr;
+    }
+    // Coefficients at rounding-noise level are no mode.
+    const by = (norm(yr, yi) * rj) / NODES, bu = (norm(ur, ui) * rj) / NODES;
+    y.push(by <= NOISE * maxY * rj ? 0 : by);
+    u.push(bu <= NOISE * maxU * rj ? 0 : bu);
   }
   return { y, u };
 }
@@ -144,7 +192,7 @@ function clusters(poles: readonly Complex[]): number[][] {
 }
 
 /** A circle for the cluster's Laurent coefficients, growing the cluster over neighbours that crowd it; null if none fits. */
-function clusterCircle(poles: readonly Complex[], members: number[], delayS: number): { c: Complex; spread: number; r: number; members: number[] } | null {
+function clusterCircle(poles: readonly Complex[], members: number[], delayS: number): { c: Complex; spread: number; r: number; room: number; members: number[] } | null {
   const inside = new Set(members);
   // Each pass either returns or takes in one more pole: at most poles.length passes.
   for (let pass = 0; pass <= poles.length; pass++) {
@@ -160,7 +208,7 @@ function clusterCircle(poles: readonly Complex[], members: number[], delayS: num
       const d = dist(q, c);
       if (d < room) { room = d; nearest = i; }
     });
-    if (spread <= CLUSTER_INSIDE * room) return { c, spread, r: Math.max(CIRCLE_AT * room, CIRCLE_OVER_SPREAD * spread), members: [...inside] };
+    if (spread <= CLUSTER_INSIDE * room) return { c, spread, r: Math.max(CIRCLE_AT * room, CIRCLE_OVER_SPREAD * spread), room, members: [...inside] };
     if (nearest < 0) return null;
     inside.add(nearest);
   }
@@ -176,17 +224,19 @@ function clusterCircle(poles: readonly Complex[], members: number[], delayS: num
  * and warns).
  */
 export function loopModes(plant: TransferFunction, comp: TransferFunction, poles: readonly Complex[]): Mode[] {
+  const n = polyMul(comp.num, plant.num);
+  const d = polyMul(comp.den, plant.den);
+  const delayS = plant.delayS + comp.delayS;
   const lp: LoopPolys = {
-    n: polyMul(comp.num, plant.num),
-    d: polyMul(comp.den, plant.den),
-    nu: polyMul(comp.num, plant.den),
-    delayS: plant.delayS + comp.delayS,
+    n: Float64Array.from(n),
+    d: Float64Array.from(d),
+    nu: Float64Array.from(polyMul(comp.num, plant.den)),
+    dn: Float64Array.from(polyAdd(polyDerivative(n), polyScale(n, -delayS))),
+    dd: Float64Array.from(polyDerivative(d)),
+    delayS,
   };
   const ps = poles.filter((p) => Number.isFinite(p.re) && Number.isFinite(p.im));
-  const amp = (v: C) => {
-    const a = Math.hypot(v[0], v[1]);
-    return Number.isFinite(a) ? a : Infinity;
-  };
+  const amp = (a: number) => (Number.isFinite(a) ? a : Infinity);
   const modes: Mode[] = [];
   const done = new Set<number>();
   for (const group of clusters(ps)) {
@@ -194,6 +244,15 @@ export function loopModes(plant: TransferFunction, comp: TransferFunction, poles
     const circle = clusterCircle(ps, group, lp.delayS);
     if (circle && circle.members.every((i) => !done.has(i))) {
       circle.members.forEach((i) => done.add(i));
+      if (circle.members.length === 1) {
+        // A lone clean simple root needs no circle: its residue is the whole mode.
+        const p = ps[circle.members[0]!]!;
+        const r = simpleResidues(lp, p, circle.room);
+        if (r.clean) {
+          modes.push({ p, power: 0, spread: 0, yAmp: r.y, uAmp: r.u });
+          continue;
+        }
+      }
       const b = laurent(lp, circle.c, circle.r, Math.min(circle.members.length + EXTRA_TERMS, MAX_TERMS));
       b.y.forEach((by, j) => modes.push({ p: circle.c, power: j, spread: circle.spread, yAmp: amp(by), uAmp: amp(b.u[j]!) }));
       continue;
@@ -201,8 +260,8 @@ export function loopModes(plant: TransferFunction, comp: TransferFunction, poles
     for (const i of group) {
       if (done.has(i)) continue;
       done.add(i);
-      const [y, u] = simpleResidues(lp, ps[i]!);
-      modes.push({ p: ps[i]!, power: 0, spread: 0, yAmp: amp(y), uAmp: amp(u) });
+      const r = simpleResidues(lp, ps[i]!, 0);
+      modes.push({ p: ps[i]!, power: 0, spread: 0, yAmp: amp(r.y), uAmp: amp(r.u) });
     }
   }
   return modes;

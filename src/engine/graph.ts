@@ -7,7 +7,7 @@ import { loopRef } from './names.js';
  * Bump whenever analysis, requirement evaluation or cascade composition changes
  * what they compute: every stored result then counts as stale and is redone.
  */
-export const ANALYSIS_VERSION = 'analysis-3';
+export const ANALYSIS_VERSION = 'analysis-4';
 
 /**
  * The loops of a machine (or of one axis: cascades never cross axes) with their

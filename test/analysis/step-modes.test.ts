@@ -48,6 +48,38 @@ describe('loopModes', () => {
     expect(Math.abs(term(modes, at(-1), 0).yAmp - 2)).toBeLessThan(1e-9);
     expect(Math.abs(term(modes, at(-2), 0).yAmp - 1)).toBeLessThan(1e-9);
   });
+
+  it('a double pole listed once, P = 1/(s(s+2)): not taken for a simple one; the circle finds both terms 1/(s+1), 1/(s+1)^2', () => {
+    // Exactly at the root Delta'(-1) = 0 (the residue formula is infinite); 1e-7 off it, |p Delta'(p)| is 5e-8 of the
+    // size of Delta's terms (ill-conditioned); 1e-4 off it, p is no root (a Newton step leaves the room).
+    for (const p of [at(-1), at(-1 - 1e-7), at(-1.0001)]) {
+      const modes = loopModes(tf([1], [0, 2, 1]), unity, [p]);
+      for (const power of [0, 1]) {
+        expect(Math.abs(term(modes, p, power).yAmp - 1)).toBeLessThan(2e-4);
+        expect(Math.abs(term(modes, p, power).uAmp - 1)).toBeLessThan(2e-4);
+      }
+      expect(modes.every((m) => Number.isFinite(m.yAmp) && Number.isFinite(m.uAmp))).toBe(true);
+    }
+  });
+
+  it('two simple poles 6 % apart (no cluster): partial fractions of 1.06/(s(s+1)(s+1.06)) give 53/3 at -1 and 50/3 at -1.06', () => {
+    // P = 1.06/(s^2 + 2.06 s): closed loop 1.06/((s+1)(s+1.06)).
+    const modes = loopModes(tf([1.06], [0, 2.06, 1]), unity, [at(-1), at(-1.06)]);
+    expect(Math.abs(term(modes, at(-1), 0).yAmp - 53 / 3)).toBeLessThan(1e-9);
+    expect(Math.abs(term(modes, at(-1.06), 0).yAmp - 50 / 3)).toBeLessThan(1e-9);
+  });
+
+  it('with a delay, P = e^(-0.2 s)/s: the root W(-0.2)/0.2 has residues -1/(1 + pT) in Y/s and 1/(1 + pT) in U/s = 1/Delta; the delay-free estimate -1, no root, holds no mode', () => {
+    // Values from scripts/step_modes_delay.py (scipy 1.17.1 lambertw).
+    const p = at(-1.2958555090953685);
+    const modes = loopModes(tf([1], [0, 1], 0.2), unity, [p, at(-1)]);
+    expect(Math.abs(term(modes, p, 0).yAmp - 1.349839352184367)).toBeLessThan(1e-9);
+    expect(Math.abs(term(modes, p, 0).uAmp - 1.349839352184367)).toBeLessThan(1e-9);
+    for (const m of modes.filter((x) => x.p.re === -1)) {
+      expect(m.yAmp).toBeLessThan(1e-8);
+      expect(m.uAmp).toBeLessThan(1e-8);
+    }
+  });
 });
 
 describe('planStep bounds', () => {
