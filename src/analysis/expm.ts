@@ -24,13 +24,6 @@ export function matMul(a: Float64Array, b: Float64Array, n: number, out: Float64
   return out;
 }
 
-/** The n x n identity. */
-export function matIdentity(n: number): Float64Array {
-  const m = new Float64Array(n * n);
-  for (let i = 0; i < n; i++) m[i * n + i] = 1;
-  return m;
-}
-
 /** Largest absolute column sum (the matrix 1-norm). */
 export function matNorm1(a: Float64Array, n: number): number {
   let best = 0;

@@ -127,15 +127,3 @@ function factorLogMag(f: Factored, w: number): number {
   }
   return lm;
 }
-
-/** G(jw) as [re, im] from the factored form. */
-export function factoredValueAt(f: Factored, w: number): [number, number] {
-  const v = factoredAt(f, w, new Float64Array(4));
-  const m = Math.exp(v[0]!);
-  return [m * Math.cos(v[1]!), m * Math.sin(v[1]!)];
-}
-
-/** Number of roots with positive real part. */
-export function countRightHalfPlane(rs: readonly Complex[]): number {
-  return rs.filter((r) => r.re > 0).length;
-}

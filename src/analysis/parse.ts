@@ -36,7 +36,7 @@ const EXAMPLE = 'e.g. 400/(s*(s+20))';
 
 class Walker {
   private readonly cols: Map<ExprNode, number>;
-  constructor(private readonly role: Role, private readonly text: string, root: ExprNode) {
+  constructor(private readonly role: Role, text: string, root: ExprNode) {
     this.cols = leafColumns(text, root);
   }
 

@@ -65,13 +65,6 @@ export function polyDerivative(a: Poly): number[] {
   return polyTrim(a.slice(1).map((c, k) => c * (k + 1)));
 }
 
-/** a(x) for real x (Horner). */
-export function polyEval(a: Poly, x: number): number {
-  let r = 0;
-  for (let k = a.length - 1; k >= 0; k--) r = r * x + a[k]!;
-  return r;
-}
-
 /** a(re + j im) as [re, im] (Horner in complex arithmetic). */
 export function polyEvalComplex(a: Poly, re: number, im: number): [number, number] {
   let rr = 0;

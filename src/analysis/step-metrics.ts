@@ -1,5 +1,5 @@
 import type { StepMetrics } from '../model/metrics.js';
-import { cubicAt, cubicFirstUpCrossing, cubicLastCrossing, cubicRange, hermiteCubic, type Cubic } from './step-cubic.js';
+import { cubicFirstUpCrossing, cubicLastCrossing, cubicRange, hermiteCubic, type Cubic } from './step-cubic.js';
 import { STEP_ERR_BUDGET } from './step-plan.js';
 import type { StepTrace } from './step-sim.js';
 
@@ -108,19 +108,4 @@ export function traceMetrics(tr: StepTrace, yF: number): TraceMetrics {
 /** Metrics when the exact final value is zero: no percentages or times exist, only the effort. */
 export function zeroFinalValueMetrics(tr: StepTrace): StepMetrics {
   return { overshootPct: 0, undershootPct: 0, riseTimeS: null, settlingTimeS: null, peakTimeS: null, finalValue: 0, peakEffort: peakEffort(tr) };
-}
-
-/** y(t) at any time inside the trace by the Hermite pieces (for tests and resampling). */
-export function traceValueAt(tr: StepTrace, tS: number): number {
-  const steps = tr.tS.length - 1;
-  if (tS <= 0) return tr.yPlus[0]!;
-  let lo = 0, hi = steps;
-  while (hi - lo > 1) {
-    const mid = (lo + hi) >> 1;
-    if (tr.tS[mid]! <= tS) lo = mid; else hi = mid;
-  }
-  if (lo >= steps) return tr.yMinus[steps]!;
-  const c: Cubic = [0, 0, 0, 0];
-  zPiece(tr, lo, 1, c);
-  return cubicAt(c, (tS - tr.tS[lo]!) / (tr.tS[lo + 1]! - tr.tS[lo]!));
 }

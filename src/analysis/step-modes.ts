@@ -54,8 +54,6 @@ const MAX_TERMS = 10;
 /** Coefficients below this fraction of max|F| r^j are rounding noise in the samples of F, not a mode. */
 const NOISE = 1e-10;
 
-type C = [number, number];
-
 const dist = (a: Complex, b: Complex) => Math.hypot(a.re - b.re, a.im - b.im);
 const norm = (re: number, im: number) => Math.sqrt(re * re + im * im);
 

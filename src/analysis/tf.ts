@@ -1,5 +1,5 @@
 import type { Poly, TransferFunction } from '../model/tf.js';
-import { polyAdd, polyDegree, polyEvalJw, polyMul, polyTrim } from './poly.js';
+import { polyDegree, polyEvalJw, polyMul, polyTrim } from './poly.js';
 
 /** Small helpers on rational transfer functions with an optional pure delay. */
 
@@ -38,16 +38,6 @@ export function tfRelativeDegree(tf: TransferFunction): number {
 /** True when deg(num) <= deg(den). */
 export function tfIsProper(tf: TransferFunction): boolean {
   return tfRelativeDegree(tf) >= 0;
-}
-
-/** True when deg(num) < deg(den) (the value at infinity is zero). */
-export function tfIsStrictlyProper(tf: TransferFunction): boolean {
-  return tfRelativeDegree(tf) > 0;
-}
-
-/** Closed-loop characteristic polynomial D + N of the delay-free unity-feedback loop L = N/D. */
-export function tfCharPoly(loop: TransferFunction): number[] {
-  return polyAdd(loop.den, loop.num);
 }
 
 /** Value at infinity of a proper rational function (delay ignored): ratio of leading coefficients, or 0 when strictly proper. */

@@ -1,16 +1,13 @@
-import type { LoopStatus } from '../model/requirements.js';
+import { STATUS_GLYPH, type LoopStatus } from '../model/requirements.js';
 
 /**
  * Output helpers shared by the commands: JSON in the product's conventions and
  * plain aligned tables. Pure string building; no numerics.
  */
 
-/** Status as a single-width ASCII mark, always printed next to the word (never colour alone). */
-export const STATUS_MARK: Readonly<Record<LoopStatus, string>> = { pass: '+', fail: 'x', unstable: '!', error: '?' };
-
 /** "x fail" */
 export function statusText(s: LoopStatus): string {
-  return `${STATUS_MARK[s]} ${s}`;
+  return `${STATUS_GLYPH[s]} ${s}`;
 }
 
 /** Keys whose values are maps keyed by data (variant names, statuses): their keys are kept as they are. */

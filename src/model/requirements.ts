@@ -43,3 +43,6 @@ export interface RequirementResult {
 }
 
 export type LoopStatus = 'pass' | 'fail' | 'unstable' | 'error';
+
+/** Status as a single-width ASCII glyph, always shown next to the word (never colour alone); one table for every face. */
+export const STATUS_GLYPH: Readonly<Record<LoopStatus, string>> = { pass: '+', fail: 'x', unstable: '!', error: '?' };

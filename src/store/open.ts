@@ -21,15 +21,6 @@ export interface OpenStoreOptions {
   readonly create?: boolean;
 }
 
-/** True when `file` exists and starts like a loopledger store (cheap; does not open it). */
-export function looksLikeStore(file: string): boolean {
-  try {
-    return fs.statSync(file).isFile() && headerBytes(file).equals(SQLITE_MAGIC);
-  } catch {
-    return false;
-  }
-}
-
 function headerBytes(file: string): Buffer {
   const fd = fs.openSync(file, 'r');
   try {

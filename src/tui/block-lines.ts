@@ -17,11 +17,6 @@ const KIND_NAME: Record<BlockKind, string> = {
   expr: 'rational expression',
 };
 
-/** What a block is, in words ("phase lead"). */
-export function blockKindName(kind: BlockKind): string {
-  return KIND_NAME[kind];
-}
-
 /** A block in the `comp set` syntax for the display unit, cleaned for the screen. */
 export function blockText(b: Block, unit: FreqUnit): string {
   return cleanText(formatBlock(b, unit));

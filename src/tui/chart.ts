@@ -119,13 +119,6 @@ export function overlay(base: ChartGrid, top: ChartGrid): void {
   });
 }
 
-/** Replaces the label of `row` with `text` (right-aligned), e.g. "0 dB". */
-export function setLabel(g: ChartGrid, row: number | null, text: string): void {
-  if (row === null || row < 0 || row >= g.cells.length) return;
-  const label = Array.from(text.padStart(LABEL_WIDTH).slice(-LABEL_WIDTH));
-  for (let c = 0; c < LABEL_WIDTH; c++) g.cells[row]![c] = label[c]!;
-}
-
 /** The grid as text lines, trailing blanks removed. */
 export function gridLines(g: ChartGrid): string[] {
   return g.cells.map((r) => r.join('').trimEnd());

@@ -8,8 +8,6 @@ import type {
   CompareVM, DraftVM, LoopDetailVM, OverviewVM, ProposalVM, SaveResultVM, TuneMethodVM, WhatIfVM,
 } from './view-model.js';
 
-const errorText = (e: unknown) => (e instanceof Error ? e.message : String(e));
-
 /**
  * The dashboard's source backed by the engine: every read and every write goes
  * through src/engine, exactly as the command line does, so the two cannot

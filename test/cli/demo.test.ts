@@ -2,7 +2,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { STATUS_MARK } from '../../src/cli/output.js';
+import { STATUS_GLYPH } from '../../src/model/requirements.js';
 import { ok, storeCli } from './run.js';
 
 /**
@@ -104,7 +104,7 @@ describe('loopledger demo', () => {
     expect(r.out).not.toMatch(/\x1b\[/); // no colour codes: the mark and the word carry the status
     for (const loop of report.loops) {
       const line = rowOf(r.out, loop.loop);
-      expect(line, loop.loop).toContain(`${STATUS_MARK[loop.status as keyof typeof STATUS_MARK]} ${loop.status}`);
+      expect(line, loop.loop).toContain(`${STATUS_GLYPH[loop.status as keyof typeof STATUS_GLYPH]} ${loop.status}`);
       expect(line).toMatch(new RegExp(` ${loop.revision} `));
       if (loop.status === 'fail') {
         // The worst miss names one of the failed requirements, its value and its limit.

@@ -4,7 +4,7 @@ import { parseArgs } from 'node:util';
 import { argError } from '../args.js';
 import type { LoopMetrics } from '../../model/metrics.js';
 import { UserError } from '../../model/errors.js';
-import type { CommandContext, CommandModule } from '../context.js';
+import type { CommandContext } from '../context.js';
 
 /**
  * `loopledger calc`: one loop from expressions, no store. The analysis (and the
@@ -154,5 +154,3 @@ export async function run(args: string[], ctx: CommandContext): Promise<number> 
   ctx.out(values.json ? JSON.stringify(toJson(m)) : summaryLines(m).join('\n'));
   return 0;
 }
-
-export const calcCommand: CommandModule = { run };

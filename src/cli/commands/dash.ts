@@ -1,6 +1,6 @@
 import { parseArgs } from 'node:util';
 import { UserError } from '../../model/errors.js';
-import type { CommandContext, CommandModule } from '../context.js';
+import type { CommandContext } from '../context.js';
 
 const HELP = `usage: loopledger [--store PATH] [--no-color] [dash] [--poll MS]
 
@@ -50,5 +50,3 @@ export async function run(args: string[], ctx: CommandContext): Promise<number> 
     source.close();
   }
 }
-
-export const dashCommand: CommandModule = { run };
